@@ -1,0 +1,12 @@
+import type { ExpectedCountsTable } from './expected-counts-table.js';
+
+/** Adds `b` into `a` (in place), in a fixed order so that sums are reproducible. Returns `a`. */
+export function addCounts(a: ExpectedCountsTable, b: ExpectedCountsTable): ExpectedCountsTable {
+  for (let i = 0; i < a.start.length; i++) a.start[i] += b.start[i];
+  for (let k = 0; k < a.trans.length; k++) a.trans[k] += b.trans[k];
+  for (let x = 0; x < a.emitT.length; x++) a.emitT[x] += b.emitT[x];
+  a.logLik += b.logLik;
+  a.nReadings += b.nReadings;
+  a.nRuns += b.nRuns;
+  return a;
+}
