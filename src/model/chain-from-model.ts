@@ -2,7 +2,7 @@ import type { SparseChain } from '../kernels/sparse-chain.js';
 import type { HmmModel } from './hmm-model.js';
 
 /** The kernels' typed-array view of a model: CSC copy of the transitions, transposed emissions with a row of ones for dropouts. */
-export function chainFromModel(model: HmmModel): SparseChain {
+export function chainFromModel(model: Pick<HmmModel, 'surfaces' | 'structure' | 'start' | 'trans' | 'emission'>): SparseChain {
   const s = model.structure;
   const n = s.nCells;
   const m = model.surfaces.length;

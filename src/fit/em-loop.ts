@@ -1,0 +1,72 @@
+import type { HmmModel, TransitionMode } from '../model/hmm-model.js';
+import { maximizeModel } from '../model/maximize-model.js';
+import { emissionLogPrior } from '../model/emission-log-prior.js';
+import { WorkError } from '../errors.js';
+import type { EStepEngine } from './e-step-engine.js';
+import type { PackedRuns } from './packed-runs.js';
+import type { StopReason } from './fit-record.js';
+import { reduceBlocks } from './reduce-blocks.js';
+
+export interface EmLoopOptions {
+  mode: TransitionMode;
+  priorStrength: number;
+  prior: Float64Array;
+  maxIter: number;
+  tol: number;
+}
+
+export interface EmLoopResult {
+  model: HmmModel;
+  iterations: number;
+  stopReason: StopReason;
+  /** Objective per reading under each model visited (the last entry is the returned model's). */
+  history: number[];
+  /** Log-likelihood per reading of the fitted runs under the returned model. */
+  logLikPerReading: number;
+}
+
+/** A decrease of the objective larger than this (relative) is a defect, not convergence. */
+const DECREASE_TOLERANCE = 1e-9;
+
+/**
+ * The EM loop, in the order init → E-step → bound → M-step → report → stop: at each iteration the
+ * E-step over all blocks (reduced in block order) gives the objective (log-likelihood + emission log
+ * prior) per reading of the current model; the loop stops when its relative change from the previous
+ * iteration is below `tol` ("converged") or after `maxIter` M-steps ("max-iter"). A decrease beyond
+ * rounding stops the fit with an error: EM cannot decrease its objective, so it means a defect.
+ */
+export async function runEm(
+  engine: EStepEngine,
+  packed: PackedRuns,
+  start: HmmModel,
+  blocks: number[][],
+  options: EmLoopOptions,
+  onIteration?: (iteration: number, objectivePerReading: number) => void,
+): Promise<EmLoopResult> {
+  let model = start;
+  let iterations = 0;
+  const history: number[] = [];
+  for (;;) {
+    const counts = reduceBlocks(model, packed, await engine.counts(model, blocks));
+    const objective = counts.logLik + emissionLogPrior(model, options.prior, options.priorStrength);
+    const perReading = objective / Math.max(1, counts.nReadings);
+    const previous = history.length ? history[history.length - 1] : undefined;
+    history.push(perReading);
+    onIteration?.(iterations, perReading);
+    if (previous !== undefined) {
+      if (perReading < previous - DECREASE_TOLERANCE * Math.abs(previous)) {
+        throw new WorkError(
+          `EM iteration ${iterations}: the objective must not decrease, got ${previous} → ${perReading} per reading; this is a defect, please report it with the inputs`,
+        );
+      }
+      if (Math.abs(perReading - previous) <= options.tol * Math.abs(previous)) {
+        return { model, iterations, stopReason: 'converged', history, logLikPerReading: counts.logLik / Math.max(1, counts.nReadings) };
+      }
+    }
+    if (iterations >= options.maxIter) {
+      return { model, iterations, stopReason: 'max-iter', history, logLikPerReading: counts.logLik / Math.max(1, counts.nReadings) };
+    }
+    model = maximizeModel(model, counts, { mode: options.mode, priorStrength: options.priorStrength, prior: options.prior });
+    iterations++;
+  }
+}
