@@ -15,6 +15,7 @@ import { LocalEngine } from './local-engine.js';
 import { PoolEngine } from './pool-engine.js';
 import type { FitOptions, FitRecord, LoopRecord } from './fit-record.js';
 import { TOOL_VERSION } from '../version.js';
+import { selectRestart } from './select-restart.js';
 
 export interface FitInput {
   floor: FloorGraph;
@@ -106,12 +107,7 @@ export async function fitModel(
       models.push(res.model);
     }
     const byHeldOut = split.heldOut.length > 0;
-    let selected = 0;
-    for (let k = 1; k < restarts.length; k++) {
-      const a = byHeldOut ? restarts[k].heldOutLogLikPerReading! : restarts[k].history[restarts[k].history.length - 1];
-      const b = byHeldOut ? restarts[selected].heldOutLogLikPerReading! : restarts[selected].history[restarts[selected].history.length - 1];
-      if (a > b) selected = k;
-    }
+    const selected = selectRestart(restarts, byHeldOut);
     let model = models[selected];
     let finalPass: LoopRecord | null = null;
     if (o.finalPass) {

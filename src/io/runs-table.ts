@@ -2,6 +2,7 @@
  * A runs table as read from CSV or Arrow (see CONTRACT.md, "Runs table"): the readings of each run as
  * integer codes, plus every input column kept for pass-through to the annotated output.
  */
+import type { DataType } from 'apache-arrow';
 
 /** Reading code for "no reading" (an empty/null cell, a lost sample, or an unknown label on request). */
 export const DROPOUT = -1;
@@ -33,6 +34,8 @@ export interface InputColumn {
   get(row: number): string | number | bigint | boolean | null;
   /** Arrow type name when read from Arrow (kept so the output can use the same type), else 'utf8'. */
   kind: 'utf8' | 'number' | 'other';
+  /** The Arrow type when read from Arrow, so an Arrow output can keep it (see `OutputColumn.arrowType`). */
+  arrowType?: DataType;
 }
 
 export interface RunsTable {

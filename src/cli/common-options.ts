@@ -1,0 +1,32 @@
+import type { Command } from 'commander';
+import { DEFAULT_KEY_COLUMNS, type KeyColumns } from '../pipeline/key-columns.js';
+import { InputError, quote } from '../errors.js';
+
+/** Adds the runs-table column options shared by commands that read runs. */
+export function addKeyColumnOptions(cmd: Command): Command {
+  return cmd
+    .option('--run-col <name>', 'column holding the run id', DEFAULT_KEY_COLUMNS.runCol)
+    .option('--step-col <name>', 'column holding the step number', DEFAULT_KEY_COLUMNS.stepCol)
+    .option('--reading-col <name>', 'column holding the reading', DEFAULT_KEY_COLUMNS.readingCol)
+    .option('--unknown-readings <mode>', 'a reading not in the floor\'s surfaces: "error" or "dropout"', 'error');
+}
+
+export function keyColumnsFrom(opts: Record<string, unknown>, where: string): KeyColumns {
+  const mode = opts.unknownReadings;
+  if (mode !== 'error' && mode !== 'dropout') throw new InputError(`${where}: --unknown-readings must be "error" or "dropout", got ${quote(mode)}`);
+  return { runCol: String(opts.runCol), stepCol: String(opts.stepCol), readingCol: String(opts.readingCol), unknownReadings: mode };
+}
+
+/** Adds --quiet, --json and --debug. */
+export function addOutputOptions(cmd: Command, json = true): Command {
+  cmd.option('-q, --quiet', 'no progress display');
+  if (json) cmd.option('--json', 'print the result as JSON on stdout (for scripts)');
+  return cmd.option('--debug', 'print stack traces of errors');
+}
+
+/** A number option, checked: one clear line when it is not a number in range. */
+export function numberOption(value: unknown, where: string, flag: string, ok: (x: number) => boolean, requirement: string): number {
+  const x = typeof value === 'number' ? value : typeof value === 'string' && value.trim() !== '' ? Number(value) : NaN;
+  if (!Number.isFinite(x) || !ok(x)) throw new InputError(`${where}: ${flag} must be ${requirement}, got ${quote(value)}`);
+  return x;
+}

@@ -1,0 +1,85 @@
+import type { Command } from 'commander';
+import { fitFromFiles, type FitConfig } from '../pipeline/fit-from-files.js';
+import { resolveFitOptions } from '../pipeline/resolve-fit-options.js';
+import type { ModelFile } from '../io/model-file.js';
+import { addKeyColumnOptions, addOutputOptions, keyColumnsFrom } from './common-options.js';
+import type { CliIo } from './cli-io.js';
+import { fitProgress } from './progress.js';
+import { formatTable } from './format-table.js';
+
+export function registerFit(program: Command, io: CliIo): void {
+  const cmd = program
+    .command('fit')
+    .description('calibrate each cell\'s reading table from unlabelled runs (multi-restart Baum-Welch)')
+    .requiredOption('--floor <file>', 'floor file')
+    .requiredOption('--runs <files...>', 'runs tables')
+    .requiredOption('--out <file>', 'model file to write')
+    .option('--restarts <k>', 'EM restarts', '8')
+    .option('--holdout <f>', 'fraction of runs held out (whole runs) to choose the restart', '0.2')
+    .option('--holdout-col <col>', 'column whose value "held-out" marks held-out runs (instead of --holdout)')
+    .option('--seed <s>', 'master seed', '1')
+    .option('--transitions <mode>', 'fixed | tied | learned', 'tied')
+    .option('--dwell <d>', 'starting (or fixed) dwell probability', '0.5')
+    .option('--hit <p>', 'prior probability that a cell reads as its surveyed surface', '0.8')
+    .option('--prior-strength <w>', 'pseudo-readings per cell behind the survey prior (0 = maximum likelihood)', '10')
+    .option('--max-iter <n>', 'most EM iterations per restart', '200')
+    .option('--tol <x>', 'relative change of log-likelihood per reading that counts as converged', '1e-6')
+    .option('--workers <n>', 'worker threads (default: the number of cores)')
+    .option('--no-final-pass', 'skip continuing the chosen restart on all runs')
+    .option('--from <model>', 'start from an existing model (warm start, for re-fits)');
+  addKeyColumnOptions(cmd);
+  addOutputOptions(cmd);
+  cmd.action(async (opts: Record<string, unknown>) => {
+    const config = fitConfig(opts);
+    const progress = fitProgress(io, Boolean(opts.quiet));
+    let outcome;
+    try {
+      outcome = await fitFromFiles(config, progress.onProgress);
+    } finally {
+      progress.done();
+    }
+    for (const w of outcome.warnings) io.err(`warning: ${w}\n`);
+    if (opts.json) io.out(JSON.stringify({ out: config.out, name: outcome.file.name, fit: outcome.file.fit }) + '\n');
+    else io.out(formatFitSummary(outcome.file, config.out));
+  });
+}
+
+/** Flags → checked fit config (pure). */
+export function fitConfig(opts: Record<string, unknown>): FitConfig {
+  const raw = { ...opts, finalPass: opts.finalPass === undefined ? undefined : Boolean(opts.finalPass) };
+  const { options, workers, from } = resolveFitOptions(raw, 'fit');
+  return {
+    floor: String(opts.floor),
+    runs: opts.runs as string[],
+    out: String(opts.out),
+    from,
+    options,
+    workers,
+    keys: keyColumnsFrom(opts, 'fit'),
+  };
+}
+
+/** The restarts table and the chosen model, as printed after a fit. */
+export function formatFitSummary(file: ModelFile, out: string): string {
+  const fit = file.fit!;
+  const rows = fit.restarts.map((r, k) => [
+    k === fit.selected ? `${k + 1} *` : String(k + 1),
+    r.seed,
+    r.iterations,
+    r.stopReason,
+    r.trainLogLikPerReading.toFixed(5),
+    r.heldOutLogLikPerReading === null ? '—' : r.heldOutLogLikPerReading.toFixed(5),
+  ]);
+  const lines = [
+    `${file.name}: ${file.model.cells.length} cells, ${fit.split.fit.length} runs fitted, ${fit.split.heldOut.length} held out (${fit.nReadings.fit} + ${fit.nReadings.heldOut} readings)`,
+    '',
+    formatTable(['restart', 'seed', 'iterations', 'stop', 'train loglik/reading', 'held-out loglik/reading'], rows).trimEnd(),
+    '',
+    `chosen: restart ${fit.selected + 1} (best ${fit.selectedBy === 'held-out' ? 'held-out' : 'training'} log-likelihood per reading)`,
+  ];
+  if (fit.finalPass) {
+    lines.push(`final pass on all runs: ${fit.finalPass.iterations} iterations, ${fit.finalPass.stopReason}, loglik/reading ${fit.finalPass.trainLogLikPerReading.toFixed(5)}`);
+  }
+  lines.push(`wrote ${out}`);
+  return lines.join('\n') + '\n';
+}

@@ -1,0 +1,49 @@
+import { Command, CommanderError } from 'commander';
+import { InputError, WorkError } from '../errors.js';
+import { TOOL_VERSION } from '../version.js';
+import { processIo, type CliIo } from './cli-io.js';
+import { registerCheck } from './check-command.js';
+import { registerSimulate } from './simulate-command.js';
+import { registerFit } from './fit-command.js';
+import { registerDecode } from './decode-command.js';
+import { registerRun } from './run-command.js';
+
+/**
+ * Runs the command line and returns the exit code: 0 success, 1 failure while working, 2 bad input or
+ * usage. Errors print one line on stderr (a stack trace only with --debug).
+ */
+export async function main(argv: string[], io: CliIo = processIo): Promise<number> {
+  const program = new Command();
+  program
+    .name('underfoot')
+    .description('Calibrate and decode indoor robots\' floor-sensor readings with hidden Markov models over a surveyed floor graph.')
+    .version(TOOL_VERSION)
+    .exitOverride()
+    .showHelpAfterError('(add --help for usage)')
+    .configureOutput({ writeOut: (s) => io.out(s), writeErr: (s) => io.err(s) });
+  registerCheck(program, io);
+  registerSimulate(program, io);
+  registerFit(program, io);
+  registerDecode(program, io);
+  registerRun(program, io);
+  for (const cmd of program.commands) cmd.exitOverride();
+  const debug = argv.includes('--debug');
+  try {
+    await program.parseAsync(argv, { from: 'user' });
+    return 0;
+  } catch (err) {
+    if (err instanceof CommanderError) {
+      if (err.code === 'commander.helpDisplayed' || err.code === 'commander.version' || err.code === 'commander.help') return 0;
+      return 2; // commander has already printed its one-line message
+    }
+    if (err instanceof InputError || err instanceof WorkError) {
+      io.err(`underfoot: ${err.message}\n`);
+      if (debug && err.stack) io.err(err.stack + '\n');
+      return err.exitCode;
+    }
+    const e = err as Error;
+    io.err(`underfoot: internal error: ${e?.message ?? String(err)}${debug ? '' : ' (run again with --debug for details)'}\n`);
+    if (debug && e?.stack) io.err(e.stack + '\n');
+    return 1;
+  }
+}

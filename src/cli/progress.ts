@@ -1,0 +1,25 @@
+import type { FitProgress } from '../fit/fit-model.js';
+import type { CliIo } from './cli-io.js';
+
+/**
+ * A one-line progress display on stderr, redrawn in place; silent unless stderr is a terminal and
+ * `--quiet` is off. Returns the callback and a function that clears the line.
+ */
+export function fitProgress(io: CliIo, quiet: boolean): { onProgress?: (p: FitProgress) => void; done: () => void } {
+  if (quiet || !io.errIsTty) return { done: () => {} };
+  let last = 0;
+  let drawn = false;
+  return {
+    onProgress: (p) => {
+      const now = Date.now();
+      if (now - last < 100 && p.iteration !== 0) return;
+      last = now;
+      drawn = true;
+      const what = p.phase === 'restart' ? `restart ${p.restart + 1} of ${p.restarts}` : `final pass (restart ${p.restart + 1}, all runs)`;
+      io.err(`\r\x1b[2K${what} · iteration ${p.iteration} · objective ${p.objectivePerReading.toFixed(6)} per reading`);
+    },
+    done: () => {
+      if (drawn) io.err('\r\x1b[2K');
+    },
+  };
+}

@@ -1,0 +1,226 @@
+import { InputError, quote } from '../errors.js';
+import { listForMessage } from './list-for-message.js';
+import { DROPOUT, type InputColumn, type ReadRunsOptions, type RunSequence, type RunsTable } from './runs-table.js';
+
+/** A table's rows as the runs builder needs them, whatever file format they came from. */
+export interface KeyedRows {
+  source: string;
+  nRows: number;
+  columns: InputColumn[];
+  runCol: string;
+  stepCol: string;
+  readingCol: string;
+  /**
+   * Values of the run, step and reading columns at a row (`null`/`undefined` for a missing value): text,
+   * numbers or bigints. Called once per row, in row order.
+   */
+  runAt(row: number): unknown;
+  stepAt(row: number): unknown;
+  readingAt(row: number): unknown;
+  /** Names a row for messages: `line 14` for CSV, `row 13` for Arrow. */
+  locate(row: number): string;
+}
+
+/** A run may have at most this many steps filled in for missing samples (a guard against timestamps). */
+export const MAX_GAP_STEPS = 10_000_000;
+
+const UNKNOWN = -2;
+
+/**
+ * Picks the run, step and reading columns (`options` names them, defaults `run`, `step`, `reading`) out
+ * of `names`; a missing one is an InputError that lists the columns present and the option to use.
+ */
+export function resolveKeyColumns(
+  names: readonly string[],
+  options: ReadRunsOptions,
+  source: string,
+): { runCol: string; stepCol: string; readingCol: string } {
+  const picked = {
+    runCol: options.runCol ?? 'run',
+    stepCol: options.stepCol ?? 'step',
+    readingCol: options.readingCol ?? 'reading',
+  };
+  const roles = [
+    ['run', picked.runCol, '--run-col'],
+    ['step', picked.stepCol, '--step-col'],
+    ['reading', picked.readingCol, '--reading-col'],
+  ] as const;
+  for (const [role, name, flag] of roles) {
+    if (!names.includes(name)) {
+      const present = listForMessage(names.map((n) => quote(n)), 20);
+      throw new InputError(
+        `${source}: the ${role} column must be present, got no column ${quote(name)} among ${present} (name another with ${flag})`,
+      );
+    }
+  }
+  for (let i = 0; i < roles.length; i++) {
+    for (let j = i + 1; j < roles.length; j++) {
+      if (roles[i][1] === roles[j][1]) {
+        throw new InputError(
+          `${source}: the ${roles[i][0]} and ${roles[j][0]} columns must differ, got ${quote(roles[i][1])} for both`,
+        );
+      }
+    }
+  }
+  return picked;
+}
+
+/** Parses a step value: a whole number >= 0 (number, bigint or decimal text such as `12` or `12.0`); -1 if not. */
+function toStep(value: unknown): number {
+  if (typeof value === 'number') return Number.isSafeInteger(value) && value >= 0 ? value : -1;
+  if (typeof value === 'bigint') return value >= 0n && value <= BigInt(Number.MAX_SAFE_INTEGER) ? Number(value) : -1;
+  if (typeof value === 'string' && /^\+?\d+(\.0*)?$/.test(value)) {
+    const step = Number(value);
+    return Number.isSafeInteger(step) ? step : -1;
+  }
+  return -1;
+}
+
+function describeValue(value: unknown): string {
+  if (value === null || value === undefined || value === '') return 'an empty value';
+  if (typeof value === 'bigint') return `${value}`;
+  if (typeof value === 'number' && !Number.isFinite(value)) return String(value);
+  return quote(value);
+}
+
+/**
+ * Turns rows into runs (CONTRACT.md, "Runs table"): rows grouped by run (runs in order of first
+ * appearance), each run's rows sorted by step (stable), readings coded by their index in
+ * `options.surfaces`. Empty/null readings and steps missing between the first and last step are
+ * DROPOUT. Errors (InputError, one line naming the file, run and step or line): an empty table, an empty
+ * run id, a step that is not a whole number >= 0, a step repeated within a run, a reading not in the
+ * surfaces (unless `unknownReadings: 'dropout'`, which counts them and adds one warning).
+ * Memory is a few typed arrays over rows; no per-row objects.
+ */
+export function buildRunsTable(input: KeyedRows, options: ReadRunsOptions): RunsTable {
+  const { source, nRows, locate } = input;
+  if (nRows === 0) throw new InputError(`${source}: table must have at least one row of readings, got none`);
+  const unknownAsDropout = (options.unknownReadings ?? 'error') === 'dropout';
+  const codeOf = new Map<string, number>(options.surfaces.map((surface, i) => [surface, i]));
+
+  // Pass 1, in file order so the first bad row is the one reported.
+  const runIndex = new Map<string, number>();
+  const runIds: string[] = [];
+  const runOfRow = new Int32Array(nRows);
+  const stepOfRow = new Float64Array(nRows);
+  const codeOfRow = new Int32Array(nRows);
+  const unknownLabels = new Map<string, number>();
+  let lastRunId = '';
+  let lastRun = -1;
+  for (let row = 0; row < nRows; row++) {
+    const rawRun = input.runAt(row);
+    if (rawRun === null || rawRun === undefined || rawRun === '') {
+      throw new InputError(`${source}: run at ${locate(row)} must be a run id, got an empty value`);
+    }
+    const runId = typeof rawRun === 'string' ? rawRun : String(rawRun);
+    // Rows of one run usually follow each other: skip the map then.
+    let r = runId === lastRunId ? lastRun : runIndex.get(runId);
+    if (r === undefined) {
+      r = runIds.length;
+      runIndex.set(runId, r);
+      runIds.push(runId);
+    }
+    runOfRow[row] = r;
+    lastRunId = runId;
+    lastRun = r;
+
+    const rawStep = input.stepAt(row);
+    const step = toStep(rawStep);
+    if (step < 0) {
+      throw new InputError(
+        `${source}: step of run ${quote(runId)} at ${locate(row)} must be a whole number >= 0, got ${describeValue(rawStep)}`,
+      );
+    }
+    stepOfRow[row] = step;
+
+    const rawReading = input.readingAt(row);
+    if (rawReading === null || rawReading === undefined || rawReading === '') {
+      codeOfRow[row] = DROPOUT;
+      continue;
+    }
+    const label = typeof rawReading === 'string' ? rawReading : String(rawReading);
+    const code = codeOf.get(label);
+    if (code !== undefined) {
+      codeOfRow[row] = code;
+    } else if (unknownAsDropout) {
+      codeOfRow[row] = UNKNOWN;
+      unknownLabels.set(label, (unknownLabels.get(label) ?? 0) + 1);
+    } else {
+      throw new InputError(
+        `${source}: reading at run ${quote(runId)} step ${step} must be one of the floor's surfaces ` +
+          `(${listForMessage(options.surfaces, 8)}), got ${quote(label)}`,
+      );
+    }
+  }
+
+  // Pass 2: rows grouped by run with a counting sort (keeps file order within a run).
+  const nRuns = runIds.length;
+  const start = new Int32Array(nRuns + 1);
+  for (let row = 0; row < nRows; row++) start[runOfRow[row] + 1]++;
+  for (let r = 0; r < nRuns; r++) start[r + 1] += start[r];
+  const fill = start.slice(0, nRuns);
+  const order = new Int32Array(nRows);
+  for (let row = 0; row < nRows; row++) order[fill[runOfRow[row]]++] = row;
+
+  // Pass 3: per run, sort by step, reject repeats, lay the readings out by step.
+  const runs: RunSequence[] = [];
+  for (let r = 0; r < nRuns; r++) {
+    const rowsOfRun = order.subarray(start[r], start[r + 1]);
+    let sorted = true;
+    for (let k = 1; k < rowsOfRun.length && sorted; k++) sorted = stepOfRow[rowsOfRun[k]] >= stepOfRow[rowsOfRun[k - 1]];
+    if (!sorted) rowsOfRun.sort((a, b) => stepOfRow[a] - stepOfRow[b] || a - b);
+    for (let k = 1; k < rowsOfRun.length; k++) {
+      const a = rowsOfRun[k - 1];
+      const b = rowsOfRun[k];
+      if (stepOfRow[a] === stepOfRow[b]) {
+        throw new InputError(
+          `${source}: step ${stepOfRow[a]} of run ${quote(runIds[r])} must appear once, got it twice (${locate(a)} and ${locate(b)})`,
+        );
+      }
+    }
+    const firstStep = stepOfRow[rowsOfRun[0]];
+    const lastStep = stepOfRow[rowsOfRun[rowsOfRun.length - 1]];
+    const nSteps = lastStep - firstStep + 1;
+    const nGapSteps = nSteps - rowsOfRun.length;
+    if (nGapSteps > MAX_GAP_STEPS) {
+      throw new InputError(
+        `${source}: run ${quote(runIds[r])} must miss at most ${MAX_GAP_STEPS} steps, got ${nGapSteps} missing ` +
+          `between step ${firstStep} and step ${lastStep} (is the step column a sample index?)`,
+      );
+    }
+    const obs = new Int32Array(nSteps).fill(DROPOUT);
+    const rows = new Int32Array(nSteps).fill(-1);
+    let nDropouts = 0;
+    let nUnknown = 0;
+    for (const row of rowsOfRun) {
+      const t = stepOfRow[row] - firstStep;
+      rows[t] = row;
+      const code = codeOfRow[row];
+      if (code >= 0) obs[t] = code;
+      else if (code === DROPOUT) nDropouts++;
+      else nUnknown++;
+    }
+    runs.push({ id: runIds[r], firstStep, obs, rows, nDropouts, nGapSteps, nUnknown });
+  }
+
+  const warnings: string[] = [];
+  if (unknownLabels.size > 0) {
+    let total = 0;
+    for (const n of unknownLabels.values()) total += n;
+    const byCount = [...unknownLabels].sort((a, b) => b[1] - a[1]).map(([label, n]) => `${quote(label)} (${n})`);
+    warnings.push(
+      `${source}: ${total} ${total === 1 ? 'reading' : 'readings'} not among the floor's surfaces became dropouts: ` +
+        listForMessage(byCount, 10),
+    );
+  }
+  return {
+    source,
+    nRows,
+    columns: input.columns,
+    runs,
+    runCol: input.runCol,
+    stepCol: input.stepCol,
+    readingCol: input.readingCol,
+    warnings,
+  };
+}

@@ -1,0 +1,23 @@
+import { InputError } from '../errors.js';
+
+/**
+ * Decodes UTF-8 bytes to text, keeping a leading byte-order mark for the parser to drop. Invalid bytes
+ * are an error rather than silently becoming U+FFFD; a text longer than a JavaScript string can hold is
+ * an error that suggests Arrow instead.
+ */
+export function decodeUtf8(bytes: Uint8Array, source: string): string {
+  try {
+    return new TextDecoder('utf-8', { fatal: true, ignoreBOM: true }).decode(bytes);
+  } catch (err) {
+    const code = (err as NodeJS.ErrnoException).code;
+    if (code === 'ERR_ENCODING_INVALID_ENCODED_DATA') {
+      throw new InputError(`${source}: file must be UTF-8 text, got bytes that are not valid UTF-8`);
+    }
+    if (code === 'ERR_STRING_TOO_LONG' || err instanceof RangeError) {
+      throw new InputError(
+        `${source}: text file must fit in one string (about 512 MB), got ${bytes.length} bytes; convert it to Arrow`,
+      );
+    }
+    throw err;
+  }
+}

@@ -1,0 +1,24 @@
+/**
+ * A table to write (annotated table, run summary): columns read row by row through `get`, so callers
+ * can present typed arrays or input columns without copying them into row objects.
+ */
+import type { DataType } from 'apache-arrow';
+
+export interface OutputColumn {
+  name: string;
+  /**
+   * How to store the column in Arrow: `utf8` text, `float64`, `int32`, or `passthrough` (an input column
+   * carried through: its `arrowType` when given and simple, else a type that fits the values; see
+   * `tableToArrowBytes`). In CSV every kind is written as text.
+   */
+  kind: 'utf8' | 'float64' | 'int32' | 'passthrough';
+  /** Value at `row`; `null` for a missing value (an empty CSV field, an Arrow null). */
+  get(row: number): string | number | bigint | boolean | null;
+  /** For `passthrough`: the Arrow type the column was read with (`InputColumn.arrowType`), if any. */
+  arrowType?: DataType;
+}
+
+export interface OutputTable {
+  nRows: number;
+  columns: OutputColumn[];
+}

@@ -1,0 +1,192 @@
+import { InputError, quote } from '../errors.js';
+import type { FloorCell, FloorGraph, FloorLink } from '../model/floor-graph.js';
+import { listForMessage } from './list-for-message.js';
+import { locateJsonError } from './locate-json-error.js';
+
+/**
+ * Parses and validates an `underfoot-floor/1` file (CONTRACT.md, "Floor file"). Every problem is one
+ * InputError line naming `source` and the cell or link at fault. Nothing is trimmed or guessed: unknown
+ * keys, repeated keys and wrong types are errors. Cells and links keep the file's order.
+ */
+export function parseFloor(text: string, source: string): FloorGraph {
+  const doc = parseJson(text.charCodeAt(0) === 0xfeff ? text.slice(1) : text, source);
+  if (!isObject(doc)) throw new InputError(`${source}: top level must be a JSON object, got ${got(doc)}`);
+
+  // A wrong format first (another kind of file has other keys), but a misspelt "format" key is named.
+  const formatError = `${source}: "format" must be ${quote(FLOOR_FORMAT)}, got ${got(doc.format)}`;
+  if (doc.format !== undefined && doc.format !== FLOOR_FORMAT) throw new InputError(formatError);
+  checkKeys(doc, TOP_KEYS, `${source}: top-level key`);
+  if (doc.format !== FLOOR_FORMAT) throw new InputError(formatError);
+  if (typeof doc.name !== 'string') throw new InputError(`${source}: "name" must be a string, got ${got(doc.name)}`);
+
+  const surfaces = parseSurfaces(doc.surfaces, source);
+  const cells = parseCells(doc.cells, surfaces, source);
+  const cellIndex = new Map<string, number>(cells.map((cell, i) => [cell.id, i]));
+  const links = parseLinks(doc.links, cellIndex, source);
+  checkWaysOut(cells, links, cellIndex, source);
+  return { format: FLOOR_FORMAT, name: doc.name, surfaces, cells, links };
+}
+
+export const FLOOR_FORMAT = 'underfoot-floor/1';
+const TOP_KEYS = ['format', 'name', 'surfaces', 'cells', 'links'];
+const CELL_KEYS = ['id', 'surface', 'x', 'y', 'level', 'start'];
+const LINK_KEYS = ['from', 'to', 'oneway'];
+
+type JsonObject = Record<string, unknown>;
+
+function isObject(value: unknown): value is JsonObject {
+  return typeof value === 'object' && value !== null && !Array.isArray(value);
+}
+
+/** `quote`, except that non-finite numbers (JSON's 1e999 reads as Infinity) are shown as such. */
+function got(value: unknown): string {
+  if (typeof value === 'number' && !Number.isFinite(value)) return String(value);
+  if (Array.isArray(value) && value.length === 0) return 'an empty list';
+  return quote(value);
+}
+
+function parseJson(text: string, source: string): unknown {
+  const problem = locateJsonError(text);
+  if (problem) {
+    const at = `line ${problem.line}, column ${problem.column}`;
+    if (problem.kind === 'repeated-key') {
+      throw new InputError(`${source}: each object must name a key once, got ${problem.what} at ${at}`);
+    }
+    throw new InputError(`${source}: file must be valid JSON, got ${problem.what} at ${at}`);
+  }
+  try {
+    return JSON.parse(text) as unknown;
+  } catch (err) {
+    // Only reached if the scanner and JSON.parse ever disagree.
+    throw new InputError(`${source}: file must be valid JSON, got ${quote((err as Error).message)}`);
+  }
+}
+
+function checkKeys(obj: JsonObject, allowed: readonly string[], where: string): void {
+  for (const key of Object.keys(obj)) {
+    if (!allowed.includes(key)) {
+      throw new InputError(`${where} must be one of ${allowed.map((k) => quote(k)).join(', ')}, got ${quote(key)}`);
+    }
+  }
+}
+
+function parseSurfaces(value: unknown, source: string): string[] {
+  if (!Array.isArray(value) || value.length === 0) {
+    throw new InputError(`${source}: "surfaces" must be a non-empty list of surface names, got ${got(value)}`);
+  }
+  const firstAt = new Map<string, number>();
+  value.forEach((surface: unknown, i) => {
+    if (typeof surface !== 'string' || surface === '') {
+      throw new InputError(`${source}: surfaces[${i}] must be a non-empty string, got ${got(surface)}`);
+    }
+    const first = firstAt.get(surface);
+    if (first !== undefined) {
+      throw new InputError(`${source}: surfaces[${i}] must be unique, got ${quote(surface)} again (also surfaces[${first}])`);
+    }
+    firstAt.set(surface, i);
+  });
+  return value as string[];
+}
+
+function parseCells(value: unknown, surfaces: string[], source: string): FloorCell[] {
+  if (!Array.isArray(value) || value.length === 0) {
+    throw new InputError(`${source}: "cells" must be a non-empty list of cells, got ${got(value)}`);
+  }
+  const known = new Set(surfaces);
+  const firstAt = new Map<string, number>();
+  return value.map((raw: unknown, i): FloorCell => {
+    if (!isObject(raw)) throw new InputError(`${source}: cells[${i}] must be an object, got ${got(raw)}`);
+    const hasId = typeof raw.id === 'string' && raw.id !== '';
+    const where = hasId ? `${source}: cell ${quote(raw.id)} (cells[${i}])` : `${source}: cells[${i}]`;
+    checkKeys(raw, CELL_KEYS, `${where} key`);
+    if (!hasId) throw new InputError(`${where} "id" must be a non-empty string, got ${got(raw.id)}`);
+    const id = raw.id as string;
+    const first = firstAt.get(id);
+    if (first !== undefined) {
+      throw new InputError(`${where} "id" must be unique, got ${quote(id)} again (also cells[${first}])`);
+    }
+    firstAt.set(id, i);
+    if (typeof raw.surface !== 'string') {
+      throw new InputError(`${where} "surface" must be a string, got ${got(raw.surface)}`);
+    }
+    if (!known.has(raw.surface)) {
+      throw new InputError(
+        `${where} "surface" must be one of the surfaces (${listForMessage(surfaces)}), got ${quote(raw.surface)}`,
+      );
+    }
+    for (const key of ['x', 'y'] as const) {
+      const v = raw[key];
+      if (typeof v !== 'number' || !Number.isFinite(v)) {
+        throw new InputError(`${where} "${key}" must be a finite number (metres), got ${got(v)}`);
+      }
+    }
+    const level = raw.level === undefined ? 0 : raw.level;
+    if (typeof level !== 'number' || !Number.isSafeInteger(level)) {
+      throw new InputError(`${where} "level" must be an integer, got ${got(raw.level)}`);
+    }
+    const start = raw.start === undefined ? false : raw.start;
+    if (typeof start !== 'boolean') throw new InputError(`${where} "start" must be true or false, got ${got(raw.start)}`);
+    return { id, surface: raw.surface, x: raw.x as number, y: raw.y as number, level, start };
+  });
+}
+
+function linkName(link: { from: string; to: string; oneway: boolean }): string {
+  return `${quote(link.from)} ${link.oneway ? '->' : '<->'} ${quote(link.to)}`;
+}
+
+function parseLinks(value: unknown, cellIndex: Map<string, number>, source: string): FloorLink[] {
+  if (!Array.isArray(value)) throw new InputError(`${source}: "links" must be a list of links, got ${got(value)}`);
+  // Directed edge "fromIndex,toIndex" -> index of the link that declared it.
+  const edgeOwner = new Map<string, number>();
+  const links: FloorLink[] = [];
+  value.forEach((raw: unknown, i) => {
+    if (!isObject(raw)) throw new InputError(`${source}: links[${i}] must be an object, got ${got(raw)}`);
+    checkKeys(raw, LINK_KEYS, `${source}: links[${i}] key`);
+    for (const key of ['from', 'to'] as const) {
+      if (typeof raw[key] !== 'string') {
+        throw new InputError(`${source}: links[${i}] "${key}" must be a cell id, got ${got(raw[key])}`);
+      }
+    }
+    const oneway = raw.oneway === undefined ? false : raw.oneway;
+    const link = { from: raw.from as string, to: raw.to as string, oneway: oneway as boolean };
+    const where = `${source}: link ${linkName(link)} (links[${i}])`;
+    if (typeof oneway !== 'boolean') throw new InputError(`${where} "oneway" must be true or false, got ${got(raw.oneway)}`);
+    const from = cellIndex.get(link.from);
+    const to = cellIndex.get(link.to);
+    if (from === undefined) throw new InputError(`${where} "from" must be the id of a cell, got ${quote(link.from)}`);
+    if (to === undefined) throw new InputError(`${where} "to" must be the id of a cell, got ${quote(link.to)}`);
+    if (from === to) throw new InputError(`${where} must join two different cells, got a link from ${quote(link.from)} to itself`);
+    const edges = link.oneway ? [`${from},${to}`] : [`${from},${to}`, `${to},${from}`];
+    for (const edge of edges) {
+      const owner = edgeOwner.get(edge);
+      if (owner !== undefined) {
+        throw new InputError(`${where} must be declared once, got the same move as links[${owner}] ${linkName(links[owner])}`);
+      }
+    }
+    for (const edge of edges) edgeOwner.set(edge, i);
+    links.push(link);
+  });
+  return links;
+}
+
+/** Every cell needs a link leaving it (the implicit dwell does not count): a run could never leave it. */
+function checkWaysOut(cells: FloorCell[], links: FloorLink[], cellIndex: Map<string, number>, source: string): void {
+  const nOut = new Int32Array(cells.length);
+  const nIn = new Int32Array(cells.length);
+  for (const link of links) {
+    const from = cellIndex.get(link.from) as number;
+    const to = cellIndex.get(link.to) as number;
+    nOut[from]++;
+    nIn[to]++;
+    if (!link.oneway) {
+      nOut[to]++;
+      nIn[from]++;
+    }
+  }
+  cells.forEach((cell, i) => {
+    if (nOut[i] === 0) {
+      const actual = nIn[i] > 0 ? `only one-way links into it (${nIn[i]})` : 'no links';
+      throw new InputError(`${source}: cell ${quote(cell.id)} (cells[${i}]) must have a way out (a link leaving it), got ${actual}`);
+    }
+  });
+}

@@ -1,0 +1,93 @@
+import { dirname, resolve } from 'node:path';
+import { InputError, quote } from '../errors.js';
+import { locateJsonError } from './locate-json-error.js';
+import { PIPELINE_FORMAT, type PipelineFile } from './pipeline-file.js';
+
+const TOP_KEYS = ['format', 'floor', 'runs', 'columns', 'model', 'fit', 'decode', 'out'];
+const COLUMN_KEYS = ['run', 'step', 'reading', 'unknownReadings'];
+export const PIPELINE_FIT_KEYS = [
+  'restarts', 'holdout', 'holdoutCol', 'seed', 'transitions', 'dwell', 'hit', 'priorStrength',
+  'maxIter', 'tol', 'workers', 'finalPass', 'from',
+];
+const DECODE_KEYS = ['lowConfidence', 'surprisingBits'];
+const OUT_KEYS = ['dir', 'model', 'annotated', 'summary'];
+
+/**
+ * Reads the text of a pipeline file. Unknown keys anywhere are errors (a typo must not be silently
+ * ignored); paths are resolved relative to the pipeline file's folder (`out` names relative to `out.dir`).
+ * Values of `fit` options are checked where they are used, with the same rules as the flags.
+ */
+export function parsePipeline(text: string, source: string): PipelineFile {
+  const fail = (what: string): never => {
+    throw new InputError(`${source}: ${what}`);
+  };
+  let doc: unknown;
+  try {
+    doc = JSON.parse(text.charCodeAt(0) === 0xfeff ? text.slice(1) : text);
+  } catch {
+    const where = locateJsonError(text);
+    fail(`the pipeline file must be valid JSON, got ${where ? `${where.what} at line ${where.line}, column ${where.column}` : 'invalid JSON'}`);
+  }
+  const root = object(doc, 'the pipeline file', fail);
+  if (root.format !== PIPELINE_FORMAT) fail(`"format" must be ${quote(PIPELINE_FORMAT)}, got ${quote(root.format)}`);
+  keys(root, TOP_KEYS, 'the pipeline file', fail);
+  const base = dirname(resolve(source));
+  const floor = typeof root.floor === 'string' && root.floor ? resolve(base, root.floor) : fail(`"floor" must be a path, got ${quote(root.floor)}`);
+  const runsRaw = typeof root.runs === 'string' ? [root.runs] : root.runs;
+  if (!Array.isArray(runsRaw) || runsRaw.length === 0 || !runsRaw.every((r) => typeof r === 'string' && r)) {
+    fail(`"runs" must be a path or a non-empty list of paths, got ${quote(root.runs)}`);
+  }
+  const runs = (runsRaw as string[]).map((r) => resolve(base, r));
+  let columns: PipelineFile['columns'] = {};
+  if (root.columns !== undefined) {
+    const c = object(root.columns, '"columns"', fail);
+    keys(c, COLUMN_KEYS, '"columns"', fail);
+    for (const k of ['run', 'step', 'reading'] as const) {
+      if (c[k] !== undefined && (typeof c[k] !== 'string' || !c[k])) fail(`"columns.${k}" must be a column name, got ${quote(c[k])}`);
+    }
+    if (c.unknownReadings !== undefined && c.unknownReadings !== 'error' && c.unknownReadings !== 'dropout') {
+      fail(`"columns.unknownReadings" must be "error" or "dropout", got ${quote(c.unknownReadings)}`);
+    }
+    columns = c as PipelineFile['columns'];
+  }
+  const model = root.model === undefined ? null : typeof root.model === 'string' && root.model ? resolve(base, root.model) : fail(`"model" must be a path, got ${quote(root.model)}`);
+  let fit: Record<string, unknown> | null = null;
+  if (root.fit !== undefined) {
+    fit = { ...object(root.fit, '"fit"', fail) };
+    keys(fit, PIPELINE_FIT_KEYS, '"fit"', fail);
+    if (typeof fit.from === 'string') fit.from = resolve(base, fit.from);
+  }
+  if (fit && model) fail('"model" (decode with a saved model) and "fit" (calibrate a new one) must not both be given');
+  if (!fit && !model) fail('either "fit" (calibrate) or "model" (decode with a saved model) must be given');
+  let decode: PipelineFile['decode'] = null;
+  if (root.decode !== undefined) {
+    const d = object(root.decode, '"decode"', fail);
+    keys(d, DECODE_KEYS, '"decode"', fail);
+    for (const k of DECODE_KEYS) if (d[k] !== undefined && (typeof d[k] !== 'number' || !Number.isFinite(d[k]))) fail(`"decode.${k}" must be a number, got ${quote(d[k])}`);
+    decode = d as PipelineFile['decode'];
+  }
+  const o = object(root.out, '"out"', fail);
+  keys(o, OUT_KEYS, '"out"', fail);
+  const dir = typeof o.dir === 'string' && o.dir ? resolve(base, o.dir) : fail(`"out.dir" must be a folder path, got ${quote(o.dir)}`);
+  const name = (k: string): string | null => {
+    const v = o[k];
+    if (v === undefined || v === null) return null;
+    if (typeof v !== 'string' || !v) fail(`"out.${k}" must be a file name, got ${quote(v)}`);
+    return resolve(dir, v as string);
+  };
+  const out = { dir, model: name('model'), annotated: name('annotated'), summary: name('summary') };
+  if (fit && !out.model) fail('"out.model" must name the model file to write when the pipeline fits');
+  if (!out.annotated && !out.summary && !out.model) fail('"out" must name at least one output (model, annotated, summary)');
+  return { source, floor, runs, columns, model, fit, decode, out };
+}
+
+function object(v: unknown, where: string, fail: (w: string) => never): Record<string, unknown> {
+  if (v === null || typeof v !== 'object' || Array.isArray(v)) fail(`${where} must be an object, got ${quote(v)}`);
+  return v as Record<string, unknown>;
+}
+
+function keys(o: Record<string, unknown>, allowed: string[], where: string, fail: (w: string) => never): void {
+  for (const k of Object.keys(o)) {
+    if (!allowed.includes(k)) fail(`${where}: key ${quote(k)} is not allowed (allowed: ${allowed.join(', ')})`);
+  }
+}

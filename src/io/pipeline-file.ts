@@ -1,0 +1,16 @@
+/** A parsed `underfoot-pipeline/1` file (CONTRACT.md, "Pipeline file"), paths already resolved. */
+export interface PipelineFile {
+  source: string;
+  floor: string;
+  runs: string[];
+  /** Key columns of the runs tables (our addition; defaults run/step/reading). */
+  columns: { run?: string; step?: string; reading?: string; unknownReadings?: 'error' | 'dropout' };
+  /** A saved model to decode with instead of fitting (decode-only pipelines). */
+  model: string | null;
+  /** Fit options in camelCase (`fit` flags), or null to skip fitting. */
+  fit: Record<string, unknown> | null;
+  decode: { lowConfidence?: number; surprisingBits?: number } | null;
+  out: { dir: string; model: string | null; annotated: string | null; summary: string | null };
+}
+
+export const PIPELINE_FORMAT = 'underfoot-pipeline/1';

@@ -1,0 +1,89 @@
+import { randomBytes } from 'node:crypto';
+import { mkdir, open, rename, rm, type FileHandle } from 'node:fs/promises';
+import { basename, dirname, join } from 'node:path';
+import { InputError, WorkError } from '../errors.js';
+
+/** What `writeFileAtomic` writes: text (as UTF-8), bytes, or a sequence of either written in order. */
+export type FileData = string | Uint8Array | Iterable<string | Uint8Array>;
+
+/**
+ * Writes `data` to `path` so that readers see the old file or the whole new one, never a part: the data
+ * goes to `<base>.tmp-<pid>-<random>` in the same folder, is flushed to disk (fsync), then renamed over
+ * `path`. On failure the temporary file is removed and the old file is left as it was. Missing parent
+ * folders are created. File-system failures become one-line errors naming `path` (InputError when the
+ * path itself is unusable, WorkError otherwise); other errors (e.g. thrown while producing `data`)
+ * pass through unchanged.
+ */
+export async function writeFileAtomic(path: string, data: FileData): Promise<void> {
+  const folder = dirname(path);
+  try {
+    await mkdir(folder, { recursive: true });
+  } catch (err) {
+    throw fileError(path, err, 'folder');
+  }
+  const temp = join(folder, `${basename(path)}.tmp-${process.pid}-${randomBytes(6).toString('hex')}`);
+  let handle: FileHandle | undefined;
+  try {
+    handle = await open(temp, 'wx');
+    const chunks = typeof data === 'string' || data instanceof Uint8Array ? [data] : data;
+    for (const chunk of chunks) await writeAll(handle, chunk);
+    await handle.sync();
+    await handle.close();
+    handle = undefined;
+    await rename(temp, path);
+  } catch (err) {
+    await handle?.close().catch(() => undefined);
+    await rm(temp, { force: true }).catch(() => undefined);
+    throw isFileSystemError(err) ? fileError(path, err, 'file') : err;
+  }
+  await syncFolder(folder);
+}
+
+/** Writes the whole chunk at the current position (a single write may take only part of it). */
+async function writeAll(handle: FileHandle, chunk: string | Uint8Array): Promise<void> {
+  const bytes = typeof chunk === 'string' ? Buffer.from(chunk, 'utf8') : chunk;
+  for (let offset = 0; offset < bytes.length; ) {
+    const { bytesWritten } = await handle.write(bytes, offset, bytes.length - offset);
+    offset += bytesWritten;
+  }
+}
+
+/** Flushes the folder entry so the rename survives a crash; some systems refuse, which is harmless. */
+async function syncFolder(folder: string): Promise<void> {
+  let handle: FileHandle | undefined;
+  try {
+    handle = await open(folder, 'r');
+    await handle.sync();
+  } catch {
+    // Not supported everywhere (e.g. on some network or Windows file systems).
+  } finally {
+    await handle?.close().catch(() => undefined);
+  }
+}
+
+function isFileSystemError(err: unknown): err is NodeJS.ErrnoException {
+  return err instanceof Error && typeof (err as NodeJS.ErrnoException).syscall === 'string';
+}
+
+function fileError(path: string, err: unknown, what: 'file' | 'folder'): Error {
+  const code = (err as NodeJS.ErrnoException).code;
+  const where = what === 'folder' ? `${path}: output folder` : `${path}: output`;
+  switch (code) {
+    case 'EISDIR':
+    case 'ENOTEMPTY':
+    case 'EEXIST':
+      return new InputError(
+        what === 'folder' ? `${where} must be creatable, got a file in the way` : `${where} must be a file path, got a folder`,
+      );
+    case 'ENOTDIR':
+      return new InputError(`${where} must lie in a folder, got a path through a file`);
+    case 'EACCES':
+    case 'EPERM':
+    case 'EROFS':
+      return new InputError(`${where} must be writable, got ${code === 'EROFS' ? 'a read-only file system' : 'permission denied'}`);
+    default: {
+      const why = String((err as Error).message).replace(/\s+/g, ' ');
+      return new WorkError(`${where} must be written, got ${code ?? 'an error'} (${why})`);
+    }
+  }
+}

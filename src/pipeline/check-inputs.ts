@@ -1,0 +1,78 @@
+import { readFloor } from '../io/read-floor.js';
+import { analyzeFloor, type FloorAnalysis } from '../model/analyze-floor.js';
+import type { KeyColumns } from './key-columns.js';
+import { loadRuns } from './load-runs.js';
+
+export interface RunsCheck {
+  files: string[];
+  runs: number;
+  /** Steps including gap-filled ones. */
+  steps: number;
+  rows: number;
+  dropouts: number;
+  gapSteps: number;
+  unknownReadings: number;
+  shortestRun: number;
+  longestRun: number;
+  /** Readings per surface, in the floor's surface order. */
+  readingCounts: Record<string, number>;
+}
+
+export interface CheckReport {
+  floorFile: string;
+  name: string;
+  floor: FloorAnalysis;
+  nStartCells: number;
+  runs: RunsCheck | null;
+  warnings: string[];
+}
+
+/** `check`: validates the floor (and runs, if given) and gathers the figures a person needs at a glance. */
+export async function checkInputs(floorPath: string, runPaths: string[], keys: KeyColumns): Promise<CheckReport> {
+  const floor = await readFloor(floorPath);
+  const analysis = analyzeFloor(floor);
+  const warnings = [...analysis.warnings];
+  let runs: RunsCheck | null = null;
+  if (runPaths.length) {
+    const loaded = await loadRuns(runPaths, { surfaces: floor.surfaces, ...keys });
+    warnings.push(...loaded.warnings);
+    const readingCounts: Record<string, number> = Object.fromEntries(floor.surfaces.map((s) => [s, 0]));
+    const counts = new Float64Array(floor.surfaces.length);
+    let steps = 0;
+    let dropouts = 0;
+    let gapSteps = 0;
+    let unknown = 0;
+    let rows = 0;
+    let shortest = Infinity;
+    let longest = 0;
+    for (const table of loaded.tables) {
+      rows += table.nRows;
+      for (const run of table.runs) {
+        steps += run.obs.length;
+        dropouts += run.nDropouts;
+        gapSteps += run.nGapSteps;
+        unknown += run.nUnknown;
+        shortest = Math.min(shortest, run.obs.length);
+        longest = Math.max(longest, run.obs.length);
+        for (let t = 0; t < run.obs.length; t++) if (run.obs[t] >= 0) counts[run.obs[t]]++;
+      }
+    }
+    floor.surfaces.forEach((s, r) => (readingCounts[s] = counts[r]));
+    runs = {
+      files: runPaths,
+      runs: loaded.runs.length,
+      steps,
+      rows,
+      dropouts,
+      gapSteps,
+      unknownReadings: unknown,
+      shortestRun: shortest === Infinity ? 0 : shortest,
+      longestRun: longest,
+      readingCounts,
+    };
+    const tiny = loaded.runs.filter((r) => r.obs.length < 2).length;
+    if (tiny) warnings.push(`${tiny} run(s) have a single step: they say little about movement`);
+    if (gapSteps) warnings.push(`${gapSteps} step(s) are missing from the runs (gaps in "step"); they are decoded as dropouts`);
+  }
+  return { floorFile: floorPath, name: floor.name, floor: analysis, nStartCells: floor.cells.filter((c) => c.start).length, runs, warnings };
+}

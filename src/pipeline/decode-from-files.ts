@@ -1,0 +1,51 @@
+import { InputError, quote } from '../errors.js';
+import { readModel } from '../io/read-model.js';
+import { readFloor } from '../io/read-floor.js';
+import { writeTable } from '../io/write-table.js';
+import type { ModelFile } from '../io/model-file.js';
+import { checkModelFloor } from '../model/check-model-floor.js';
+import type { DecodeThresholds } from '../decode/decode-thresholds.js';
+import type { KeyColumns } from './key-columns.js';
+import { loadRuns } from './load-runs.js';
+import { decodeRuns, type DecodedTables } from './decode-runs.js';
+
+export interface DecodeConfig {
+  model: string;
+  /** Optional floor to check the model against. */
+  floor: string | null;
+  runs: string[];
+  out: string;
+  summary: string | null;
+  thresholds: DecodeThresholds;
+  keys: KeyColumns;
+}
+
+export interface DecodeOutcome {
+  decoded: DecodedTables;
+  warnings: string[];
+  nRuns: number;
+  nRows: number;
+}
+
+/** `decode`: reads a model and runs, decodes every run, writes the annotated table and run summary atomically. */
+export async function decodeFromFiles(config: DecodeConfig, preloaded?: ModelFile, skipAnnotated = false): Promise<DecodeOutcome> {
+  const file = preloaded ?? (await readModel(config.model));
+  if (config.floor) checkModelFloor(file.model, config.model, await readFloor(config.floor), config.floor);
+  const loaded = await loadRuns(config.runs, { surfaces: file.model.surfaces, ...config.keys });
+  const names = loaded.tables[0].columns.map((c) => c.name).join(',');
+  for (const t of loaded.tables.slice(1)) {
+    if (t.columns.map((c) => c.name).join(',') !== names) {
+      throw new InputError(`${t.source}: runs tables decoded together must have the same columns, got ${quote(t.columns.map((c) => c.name).join(','))} and ${quote(names)} in ${loaded.tables[0].source}`);
+    }
+  }
+  const fitRuns = new Set(file.fit?.split.fit ?? []);
+  const heldRuns = new Set(file.fit?.split.heldOut ?? []);
+  const decoded = decodeRuns(file.model, loaded.tables, config.thresholds, (run) => (heldRuns.has(run) ? 'held-out' : fitRuns.has(run) ? 'fit' : 'unseen'));
+  const warnings = [...loaded.warnings];
+  if (decoded.impossibleRuns.length) {
+    warnings.push(`${decoded.impossibleRuns.length} run(s) are impossible under the model and were not decoded: ${decoded.impossibleRuns.slice(0, 10).join(', ')}`);
+  }
+  if (!skipAnnotated) await writeTable(config.out, decoded.annotated);
+  if (config.summary) await writeTable(config.summary, decoded.summary);
+  return { decoded, warnings, nRuns: loaded.runs.length, nRows: decoded.annotated.nRows };
+}

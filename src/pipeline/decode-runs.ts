@@ -1,0 +1,110 @@
+import type { HmmModel } from '../model/hmm-model.js';
+import { chainFromModel } from '../model/chain-from-model.js';
+import { logChain } from '../decode/log-chain.js';
+import { decodeRun } from '../decode/decode-run.js';
+import { summarizeRun, flagText, type RunSummary } from '../decode/summarize-run.js';
+import type { DecodeThresholds } from '../decode/decode-thresholds.js';
+import type { RunsTable } from '../io/runs-table.js';
+import type { OutputTable, OutputColumn } from '../io/output-table.js';
+
+export interface DecodedTables {
+  annotated: OutputTable;
+  summary: OutputTable;
+  summaries: Array<RunSummary & { run: string; split: string }>;
+  /** Runs impossible under the model, for a warning. */
+  impossibleRuns: string[];
+}
+
+/**
+ * Decodes every run of the tables and builds the annotated table (every input row in input order, input
+ * columns first, then the contract's columns) and the run summary. `splitOf` tells each run's split.
+ * Steps that were missing from the input (gaps) are decoded as dropouts but have no input row, so they
+ * appear in the summary's counts only.
+ */
+export function decodeRuns(model: HmmModel, tables: RunsTable[], th: DecodeThresholds, splitOf: (run: string) => string): DecodedTables {
+  const chain = chainFromModel(model);
+  const log = logChain(chain);
+  const nRows = tables.reduce((s, t) => s + t.nRows, 0);
+  const pathCell = new Int32Array(nRows).fill(-1);
+  const pathP = new Float64Array(nRows).fill(NaN);
+  const likelyCell = new Int32Array(nRows).fill(-1);
+  const likelyP = new Float64Array(nRows).fill(NaN);
+  const entropy = new Float64Array(nRows).fill(NaN);
+  const surprise = new Float64Array(nRows).fill(NaN);
+  const flags = new Uint8Array(nRows);
+  const summaries: DecodedTables['summaries'] = [];
+  const impossibleRuns: string[] = [];
+  let base = 0;
+  for (const table of tables) {
+    for (const run of table.runs) {
+      const dec = decodeRun(chain, log, run.obs);
+      const stepFlags = new Uint8Array(run.obs.length);
+      const summary = summarizeRun(run.obs, dec, th, stepFlags);
+      summaries.push({ run: run.id, split: splitOf(run.id), ...summary });
+      if (dec.logLik === -Infinity) impossibleRuns.push(run.id);
+      for (let t = 0; t < run.obs.length; t++) {
+        const row = run.rows[t];
+        if (row < 0) continue;
+        const g = base + row;
+        pathCell[g] = dec.path[t];
+        pathP[g] = dec.pathP[t];
+        likelyCell[g] = dec.likelyCell[t];
+        likelyP[g] = dec.likelyP[t];
+        entropy[g] = dec.entropyBits[t];
+        surprise[g] = dec.surpriseBits[t];
+        flags[g] = stepFlags[t];
+      }
+    }
+    base += table.nRows;
+  }
+  const ids = model.cells.map((c) => c.id);
+  const num = (a: Float64Array) => (row: number) => (Number.isNaN(a[row]) ? null : a[row]);
+  const cell = (a: Int32Array) => (row: number) => (a[row] < 0 ? null : ids[a[row]]);
+  const inputColumns: OutputColumn[] = tables[0].columns.map((c, k) => ({
+    name: c.name,
+    kind: 'passthrough',
+    arrowType: c.arrowType,
+    get: tables.length === 1 ? c.get : spanning(tables, k),
+  }));
+  const annotated: OutputTable = {
+    nRows,
+    columns: [
+      ...inputColumns,
+      { name: 'path_cell', kind: 'utf8', get: cell(pathCell) },
+      { name: 'path_p', kind: 'float64', get: num(pathP) },
+      { name: 'likely_cell', kind: 'utf8', get: cell(likelyCell) },
+      { name: 'likely_p', kind: 'float64', get: num(likelyP) },
+      { name: 'entropy_bits', kind: 'float64', get: num(entropy) },
+      { name: 'surprise_bits', kind: 'float64', get: num(surprise) },
+      { name: 'flag', kind: 'utf8', get: (row) => flagText(flags[row]) },
+    ],
+  };
+  const finite = (v: number) => (Number.isFinite(v) ? v : null);
+  const summary: OutputTable = {
+    nRows: summaries.length,
+    columns: [
+      { name: 'run', kind: 'utf8', get: (r) => summaries[r].run },
+      { name: 'steps', kind: 'int32', get: (r) => summaries[r].steps },
+      { name: 'dropouts', kind: 'int32', get: (r) => summaries[r].dropouts },
+      { name: 'split', kind: 'utf8', get: (r) => summaries[r].split },
+      { name: 'loglik', kind: 'float64', get: (r) => finite(summaries[r].loglik) },
+      { name: 'loglik_per_reading', kind: 'float64', get: (r) => finite(summaries[r].loglikPerReading) },
+      { name: 'path_logprob', kind: 'float64', get: (r) => finite(summaries[r].pathLogprob) },
+      { name: 'mean_path_p', kind: 'float64', get: (r) => finite(summaries[r].meanPathP) },
+      { name: 'low_confidence_steps', kind: 'int32', get: (r) => summaries[r].lowConfidenceSteps },
+      { name: 'surprising_steps', kind: 'int32', get: (r) => summaries[r].surprisingSteps },
+    ],
+  };
+  return { annotated, summary, summaries, impossibleRuns };
+}
+
+/** A column that reads row `g` from whichever table holds it (tables stacked in order). */
+function spanning(tables: RunsTable[], k: number): (row: number) => string | number | bigint | boolean | null {
+  const starts = [0];
+  for (const t of tables) starts.push(starts[starts.length - 1] + t.nRows);
+  return (row) => {
+    let i = 0;
+    while (row >= starts[i + 1]) i++;
+    return tables[i].columns[k].get(row - starts[i]);
+  };
+}

@@ -1,0 +1,59 @@
+import { readFloor } from '../io/read-floor.js';
+import { readModel } from '../io/read-model.js';
+import { fileDigest } from '../io/file-digest.js';
+import { formatModel } from '../io/format-model.js';
+import { writeFileAtomic } from '../io/write-atomic.js';
+import type { ModelFile } from '../io/model-file.js';
+import { checkModelFloor } from '../model/check-model-floor.js';
+import { fitModel, type FitProgress } from '../fit/fit-model.js';
+import type { FitOptions } from '../fit/fit-record.js';
+import type { KeyColumns } from './key-columns.js';
+import { loadRuns } from './load-runs.js';
+import { heldOutFlags } from './held-out-flags.js';
+
+export interface FitConfig {
+  floor: string;
+  runs: string[];
+  out: string;
+  from: string | null;
+  options: FitOptions;
+  workers: number;
+  keys: KeyColumns;
+}
+
+export interface FitOutcome {
+  file: ModelFile;
+  warnings: string[];
+  nRuns: number;
+}
+
+/** `fit`: reads the floor and runs (and a warm-start model), calibrates, writes the model file atomically. */
+export async function fitFromFiles(config: FitConfig, onProgress?: (p: FitProgress) => void): Promise<FitOutcome> {
+  const floor = await readFloor(config.floor);
+  const loaded = await loadRuns(config.runs, { surfaces: floor.surfaces, ...config.keys });
+  const options = { ...config.options };
+  let warmStart;
+  if (config.from) {
+    const from = await readModel(config.from);
+    checkModelFloor(from.model, config.from, floor, config.floor);
+    warmStart = from.model;
+    options.fromDigest = await fileDigest(config.from);
+  }
+  const flags = options.holdoutCol ? heldOutFlags(loaded, options.holdoutCol) : undefined;
+  const result = await fitModel(
+    {
+      floor,
+      runs: loaded.runs,
+      heldOutFlags: flags,
+      floorDigest: await fileDigest(config.floor),
+      runsDigests: loaded.digests,
+      warmStart,
+    },
+    options,
+    config.workers,
+    onProgress,
+  );
+  const file: ModelFile = { name: floor.name, model: result.model, fit: result.record };
+  await writeFileAtomic(config.out, formatModel(file));
+  return { file, warnings: loaded.warnings, nRuns: loaded.runs.length };
+}

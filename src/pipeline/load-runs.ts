@@ -1,0 +1,36 @@
+import { InputError, quote } from '../errors.js';
+import { readRuns } from '../io/read-runs.js';
+import { fileDigest } from '../io/file-digest.js';
+import type { ReadRunsOptions, RunsTable } from '../io/runs-table.js';
+
+export interface LoadedRuns {
+  tables: RunsTable[];
+  digests: Array<{ file: string; sha256: string }>;
+  /** Every run of every table, in file order then run order, with where it came from. */
+  runs: Array<{ id: string; obs: Int32Array; table: number; run: number }>;
+  warnings: string[];
+}
+
+/** Reads one or more runs tables; run ids must be unique across them. */
+export async function loadRuns(paths: string[], options: ReadRunsOptions): Promise<LoadedRuns> {
+  if (paths.length === 0) throw new InputError('runs: at least one runs table must be given, got none');
+  const tables: RunsTable[] = [];
+  const digests: LoadedRuns['digests'] = [];
+  const runs: LoadedRuns['runs'] = [];
+  const seen = new Map<string, string>();
+  const warnings: string[] = [];
+  for (const path of paths) {
+    const table = await readRuns(path, options);
+    const t = tables.length;
+    tables.push(table);
+    digests.push({ file: path, sha256: await fileDigest(path) });
+    table.runs.forEach((run, r) => {
+      const other = seen.get(run.id);
+      if (other !== undefined) throw new InputError(`${path}: run ids must be unique across runs tables, got ${quote(run.id)} also in ${other}`);
+      seen.set(run.id, path);
+      runs.push({ id: run.id, obs: run.obs, table: t, run: r });
+    });
+    warnings.push(...table.warnings);
+  }
+  return { tables, digests, runs, warnings };
+}

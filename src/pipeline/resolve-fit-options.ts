@@ -1,0 +1,59 @@
+import { availableParallelism } from 'node:os';
+import { InputError, quote } from '../errors.js';
+import { DEFAULT_FIT_OPTIONS } from '../fit/fit-model.js';
+import type { FitOptions } from '../fit/fit-record.js';
+import type { TransitionMode } from '../model/hmm-model.js';
+
+/** Raw option values from flags (strings) or a pipeline file (JSON values), camelCase keys. */
+export type RawFitOptions = Record<string, unknown>;
+
+/**
+ * Turns raw `fit` options into checked FitOptions plus the worker count. `where` prefixes messages
+ * (`fit` for flags, the pipeline file for pipelines); `flag` renders an option's name as the user wrote it.
+ */
+export function resolveFitOptions(
+  raw: RawFitOptions,
+  where: string,
+  flag: (key: string) => string = (k) => `--${k.replace(/[A-Z]/g, (c) => '-' + c.toLowerCase())}`,
+): { options: FitOptions; workers: number; from: string | null } {
+  const fail = (key: string, requirement: string): never => {
+    throw new InputError(`${where}: ${flag(key)} must be ${requirement}, got ${quote(raw[key])}`);
+  };
+  const num = (key: string, def: number, ok: (v: number) => boolean, requirement: string): number => {
+    const v = raw[key];
+    if (v === undefined || v === null) return def;
+    const x = typeof v === 'number' ? v : typeof v === 'string' && v.trim() !== '' ? Number(v) : NaN;
+    if (!Number.isFinite(x) || !ok(x)) fail(key, requirement);
+    return x;
+  };
+  const int = (key: string, def: number, min: number, max = Number.MAX_SAFE_INTEGER): number =>
+    num(key, def, (x) => Number.isInteger(x) && x >= min && x <= max, `a whole number from ${min}${max < Number.MAX_SAFE_INTEGER ? ` to ${max}` : ' up'}`);
+  const d = DEFAULT_FIT_OPTIONS;
+  const transitions = (raw.transitions ?? d.transitions) as TransitionMode;
+  if (!['fixed', 'tied', 'learned'].includes(transitions)) fail('transitions', 'one of fixed, tied, learned');
+  const holdoutCol = raw.holdoutCol === undefined || raw.holdoutCol === null ? null : String(raw.holdoutCol);
+  if (holdoutCol !== null && holdoutCol.trim() === '') fail('holdoutCol', 'a column name');
+  let finalPass = d.finalPass;
+  if (raw.finalPass !== undefined) {
+    if (typeof raw.finalPass !== 'boolean') fail('finalPass', 'true or false');
+    finalPass = raw.finalPass as boolean;
+  }
+  const from = raw.from === undefined || raw.from === null ? null : String(raw.from);
+  const options: FitOptions = {
+    restarts: int('restarts', d.restarts, 1, 1000),
+    holdout: num('holdout', d.holdout, (x) => x >= 0 && x < 1, 'a fraction in [0, 1)'),
+    holdoutCol,
+    seed: int('seed', d.seed, 0, 2 ** 31 - 1),
+    transitions,
+    dwell: num('dwell', d.dwell, (x) => x > 0 && x < 1, 'a probability strictly between 0 and 1'),
+    hit: num('hit', d.hit, (x) => x > 0 && x <= 1, 'a probability in (0, 1]'),
+    priorStrength: num('priorStrength', d.priorStrength, (x) => x >= 0, 'a number ≥ 0'),
+    maxIter: int('maxIter', d.maxIter, 0, 1_000_000),
+    tol: num('tol', d.tol, (x) => x >= 0, 'a number ≥ 0'),
+    finalPass,
+    blockSize: d.blockSize,
+    fromDigest: null,
+  };
+  const workers = int('workers', availableParallelism(), 1, 256);
+  return { options, workers, from };
+}

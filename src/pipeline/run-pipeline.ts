@@ -1,0 +1,65 @@
+import { readPipeline } from '../io/read-pipeline.js';
+import { readModel } from '../io/read-model.js';
+import { checkReadable } from '../io/check-readable.js';
+import type { FitProgress } from '../fit/fit-model.js';
+import { DEFAULT_THRESHOLDS } from '../decode/decode-thresholds.js';
+import { DEFAULT_KEY_COLUMNS, type KeyColumns } from './key-columns.js';
+import { resolveFitOptions } from './resolve-fit-options.js';
+import { fitFromFiles, type FitOutcome } from './fit-from-files.js';
+import { decodeFromFiles, type DecodeOutcome } from './decode-from-files.js';
+import { InputError } from '../errors.js';
+
+export interface PipelineOutcome {
+  fit: FitOutcome | null;
+  decode: DecodeOutcome | null;
+  written: string[];
+  warnings: string[];
+}
+
+/**
+ * `run PIPELINE.json`: read → fit (or load a saved model) → select → decode → write. Everything the
+ * pipeline names is checked before any work starts, so a bad pipeline writes nothing.
+ */
+export async function runPipeline(path: string, onProgress?: (p: FitProgress) => void, overrides: { workers?: number } = {}): Promise<PipelineOutcome> {
+  const p = await readPipeline(path);
+  const keys: KeyColumns = {
+    runCol: p.columns.run ?? DEFAULT_KEY_COLUMNS.runCol,
+    stepCol: p.columns.step ?? DEFAULT_KEY_COLUMNS.stepCol,
+    readingCol: p.columns.reading ?? DEFAULT_KEY_COLUMNS.readingCol,
+    unknownReadings: p.columns.unknownReadings ?? 'error',
+  };
+  const fitOpts = p.fit ? resolveFitOptions({ ...p.fit, ...(overrides.workers ? { workers: overrides.workers } : {}) }, p.source, (k) => `"fit.${k}"`) : null;
+  await checkReadable(p.floor, 'floor file');
+  for (const r of p.runs) await checkReadable(r, 'runs table');
+  if (p.model) await checkReadable(p.model, 'model file');
+  if (fitOpts?.from) await checkReadable(fitOpts.from, 'warm-start model');
+  const thresholds = { ...DEFAULT_THRESHOLDS, ...(p.decode ?? {}) };
+  if (!(thresholds.lowConfidence >= 0 && thresholds.lowConfidence <= 1)) {
+    throw new InputError(`${p.source}: "decode.lowConfidence" must be a probability in [0, 1], got ${thresholds.lowConfidence}`);
+  }
+  const written: string[] = [];
+  const warnings: string[] = [];
+  let fit: FitOutcome | null = null;
+  if (fitOpts) {
+    fit = await fitFromFiles(
+      { floor: p.floor, runs: p.runs, out: p.out.model!, from: fitOpts.from, options: fitOpts.options, workers: fitOpts.workers, keys },
+      onProgress,
+    );
+    written.push(p.out.model!);
+    warnings.push(...fit.warnings);
+  }
+  let decode: DecodeOutcome | null = null;
+  if (p.out.annotated || p.out.summary) {
+    const model = fit ? fit.file : await readModel(p.model!);
+    const annotated = p.out.annotated;
+    decode = await decodeFromFiles(
+      { model: fit ? p.out.model! : p.model!, floor: p.floor, runs: p.runs, out: annotated ?? '', summary: p.out.summary, thresholds, keys },
+      model,
+      annotated === null,
+    );
+    if (annotated) written.push(annotated);
+    if (p.out.summary) written.push(p.out.summary);
+    warnings.push(...decode.warnings.filter((w) => !warnings.includes(w)));
+  }
+  return { fit, decode, written, warnings };
+}

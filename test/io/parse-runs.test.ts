@@ -1,0 +1,372 @@
+import {
+  Float64,
+  Int32,
+  Int64,
+  Table,
+  tableToIPC,
+  Utf8,
+  vectorFromArray,
+  type Vector,
+} from 'apache-arrow';
+import { describe, expect, it } from 'vitest';
+import { InputError } from '../../src/errors.js';
+import { MAX_GAP_STEPS } from '../../src/io/build-runs-table.js';
+import { runsFromArrow, runsFromCsv } from '../../src/io/parse-runs.js';
+import { DROPOUT, type ReadRunsOptions } from '../../src/io/runs-table.js';
+
+// Source for every rule checked here: /work/shared/CONTRACT.md, "Runs table" (columns, sorting, gaps
+// as dropouts, duplicate steps and unknown readings as errors, --unknown-readings dropout, column
+// options). Surfaces and runs are invented.
+
+const SURFACES = ['oak', 'carpet', 'tile'];
+const OPTIONS: ReadRunsOptions = { surfaces: SURFACES };
+const [OAK, CARPET, TILE] = [0, 1, 2];
+
+function csvError(text: string, options: ReadRunsOptions = OPTIONS): string {
+  try {
+    runsFromCsv(text, 'runs.csv', options);
+  } catch (err) {
+    expect(err).toBeInstanceOf(InputError);
+    const message = (err as Error).message;
+    expect(message).not.toMatch(/[\r\n]/);
+    expect(message.startsWith('runs.csv: ')).toBe(true);
+    return message;
+  }
+  throw new Error('expected an InputError');
+}
+
+function arrowBytes(columns: Record<string, Vector>, stream = false): Uint8Array {
+  return tableToIPC(new Table(columns), stream ? 'stream' : 'file');
+}
+
+function arrowError(bytes: Uint8Array, options: ReadRunsOptions = OPTIONS): string {
+  try {
+    runsFromArrow(bytes, 'runs.arrow', options);
+  } catch (err) {
+    expect(err).toBeInstanceOf(InputError);
+    const message = (err as Error).message;
+    expect(message).not.toMatch(/[\r\n]/);
+    expect(message.startsWith('runs.arrow: ')).toBe(true);
+    return message;
+  }
+  throw new Error('expected an InputError');
+}
+
+describe('runsFromCsv(text, source, options)', () => {
+  it('runsFromCsv(text) groups rows by run in order of first appearance and codes readings', () => {
+    const table = runsFromCsv('run,step,reading\nr2,0,oak\nr1,0,tile\nr2,1,carpet\nr1,1,oak\n', 'runs.csv', OPTIONS);
+    expect(table.runs.map((r) => r.id)).toEqual(['r2', 'r1']);
+    expect([...table.runs[0].obs]).toEqual([OAK, CARPET]);
+    expect([...table.runs[0].rows]).toEqual([0, 2]);
+    expect([...table.runs[1].obs]).toEqual([TILE, OAK]);
+    expect([...table.runs[1].rows]).toEqual([1, 3]);
+    expect(table.nRows).toBe(4);
+    expect([table.runCol, table.stepCol, table.readingCol]).toEqual(['run', 'step', 'reading']);
+    expect(table.warnings).toEqual([]);
+  });
+
+  it('runsFromCsv(text) sorts each run by step and keeps the first step', () => {
+    const table = runsFromCsv('run,step,reading\nr1,12,tile\nr1,10,oak\nr1,11,carpet\n', 'runs.csv', OPTIONS);
+    const run = table.runs[0];
+    expect(run.firstStep).toBe(10);
+    expect([...run.obs]).toEqual([OAK, CARPET, TILE]);
+    expect([...run.rows]).toEqual([1, 2, 0]);
+  });
+
+  it('runsFromCsv(text) turns gaps in step into dropouts with no input row', () => {
+    const table = runsFromCsv('run,step,reading\nr1,3,oak\nr1,4,oak\nr1,7,tile\n', 'runs.csv', OPTIONS);
+    const run = table.runs[0];
+    expect(run.firstStep).toBe(3);
+    expect([...run.obs]).toEqual([OAK, OAK, DROPOUT, DROPOUT, TILE]);
+    expect([...run.rows]).toEqual([0, 1, -1, -1, 2]);
+    expect(run.nGapSteps).toBe(2);
+    expect(run.nDropouts).toBe(0);
+  });
+
+  it('runsFromCsv(text) turns empty and quoted-empty readings into counted dropouts', () => {
+    const table = runsFromCsv('run,step,reading\nr1,0,oak\nr1,1,\nr1,2,""\nr1,3,tile\n', 'runs.csv', OPTIONS);
+    const run = table.runs[0];
+    expect([...run.obs]).toEqual([OAK, DROPOUT, DROPOUT, TILE]);
+    expect([...run.rows]).toEqual([0, 1, 2, 3]);
+    expect(run.nDropouts).toBe(2);
+    expect(run.nGapSteps).toBe(0);
+  });
+
+  it('runsFromCsv(text) accepts whole-number steps written as 12.0 or +12', () => {
+    const table = runsFromCsv('run,step,reading\nr1,12.0,oak\nr1,+13,tile\n', 'runs.csv', OPTIONS);
+    expect(table.runs[0].firstStep).toBe(12);
+    expect([...table.runs[0].obs]).toEqual([OAK, TILE]);
+  });
+
+  it('runsFromCsv(text) keeps every column for pass-through, as text with null for empty', () => {
+    const table = runsFromCsv('time,run,step,reading,note\n0.5,r1,0,oak,"a, b"\n1.0,r1,1,tile,\n', 'runs.csv', OPTIONS);
+    expect(table.columns.map((c) => [c.name, c.kind])).toEqual([
+      ['time', 'utf8'],
+      ['run', 'utf8'],
+      ['step', 'utf8'],
+      ['reading', 'utf8'],
+      ['note', 'utf8'],
+    ]);
+    expect(table.columns[0].get(1)).toBe('1.0');
+    expect(table.columns[4].get(0)).toBe('a, b');
+    expect(table.columns[4].get(1)).toBeNull();
+  });
+
+  it('runsFromCsv(text) uses the column names given in the options', () => {
+    const table = runsFromCsv('robot,t,label\nbot-3,0,carpet\n', 'runs.csv', {
+      surfaces: SURFACES,
+      runCol: 'robot',
+      stepCol: 't',
+      readingCol: 'label',
+    });
+    expect(table.runs[0].id).toBe('bot-3');
+    expect([...table.runs[0].obs]).toEqual([CARPET]);
+    expect([table.runCol, table.stepCol, table.readingCol]).toEqual(['robot', 't', 'label']);
+  });
+
+  it('runsFromCsv(text) with unknownReadings dropout counts unknown labels and warns once', () => {
+    const table = runsFromCsv('run,step,reading\nr1,0,wood\nr1,1,oak\nr2,0,wood\nr2,1,slate\n', 'runs.csv', {
+      surfaces: SURFACES,
+      unknownReadings: 'dropout',
+    });
+    expect([...table.runs[0].obs]).toEqual([DROPOUT, OAK]);
+    expect([...table.runs[1].obs]).toEqual([DROPOUT, DROPOUT]);
+    expect(table.runs.map((r) => [r.nUnknown, r.nDropouts])).toEqual([
+      [1, 0],
+      [2, 0],
+    ]);
+    expect(table.warnings).toEqual([
+      `runs.csv: 3 readings not among the floor's surfaces became dropouts: "wood" (2), "slate" (1)`,
+    ]);
+  });
+});
+
+describe('runsFromCsv(text, source, options) errors (one per case in the contract)', () => {
+  it('runsFromCsv(text) rejects a table without a run column, listing the columns and --run-col', () => {
+    expect(csvError('robot,step,reading\nr1,0,oak\n')).toBe(
+      'runs.csv: the run column must be present, got no column "run" among "robot", "step", "reading" (name another with --run-col)',
+    );
+  });
+
+  it('runsFromCsv(text) rejects a table without a step column, naming --step-col', () => {
+    expect(csvError('run,t,reading\nr1,0,oak\n')).toBe(
+      'runs.csv: the step column must be present, got no column "step" among "run", "t", "reading" (name another with --step-col)',
+    );
+  });
+
+  it('runsFromCsv(text) rejects a table without the reading column named in the options, naming --reading-col', () => {
+    expect(csvError('run,step,reading\nr1,0,oak\n', { surfaces: SURFACES, readingCol: 'surface' })).toBe(
+      'runs.csv: the reading column must be present, got no column "surface" among "run", "step", "reading" (name another with --reading-col)',
+    );
+  });
+
+  it('runsFromCsv(text) rejects one column named for two roles', () => {
+    expect(csvError('run,step,reading\nr1,0,oak\n', { surfaces: SURFACES, stepCol: 'run' })).toBe(
+      'runs.csv: the run and step columns must differ, got "run" for both',
+    );
+  });
+
+  it('runsFromCsv(text) rejects a table with a header and no rows', () => {
+    expect(csvError('run,step,reading\n')).toBe('runs.csv: table must have at least one row of readings, got none');
+  });
+
+  it('runsFromCsv(text) rejects an empty run id, naming the line', () => {
+    expect(csvError('run,step,reading\nr1,0,oak\n,1,oak\n')).toBe('runs.csv: run at line 3 must be a run id, got an empty value');
+  });
+
+  it('runsFromCsv(text) rejects a step that is not a whole number, naming the run and line', () => {
+    expect(csvError('run,step,reading\nr1,0,oak\nr1,1.5,oak\n')).toBe(
+      'runs.csv: step of run "r1" at line 3 must be a whole number >= 0, got "1.5"',
+    );
+  });
+
+  it('runsFromCsv(text) rejects a negative step', () => {
+    expect(csvError('run,step,reading\nr4,-1,oak\n')).toBe(
+      'runs.csv: step of run "r4" at line 2 must be a whole number >= 0, got "-1"',
+    );
+  });
+
+  it('runsFromCsv(text) rejects an empty step', () => {
+    expect(csvError('run,step,reading\nr4,,oak\n')).toBe(
+      'runs.csv: step of run "r4" at line 2 must be a whole number >= 0, got an empty value',
+    );
+  });
+
+  it('runsFromCsv(text) rejects a step that is not a number', () => {
+    expect(csvError('run,step,reading\nr4,0x10,oak\n')).toBe(
+      'runs.csv: step of run "r4" at line 2 must be a whole number >= 0, got "0x10"',
+    );
+  });
+
+  it('runsFromCsv(text) rejects a step repeated within a run, naming the run, the step and both lines', () => {
+    expect(csvError('run,step,reading\nr1,5,oak\nr2,5,oak\nr1,6,oak\nr1,5,tile\n')).toBe(
+      'runs.csv: step 5 of run "r1" must appear once, got it twice (line 2 and line 5)',
+    );
+  });
+
+  it('runsFromCsv(text) rejects a reading not in the surfaces, naming the run, the step and the label', () => {
+    expect(csvError('run,step,reading\nr7,11,oak\nr7,12,wood\n')).toBe(
+      `runs.csv: reading at run "r7" step 12 must be one of the floor's surfaces (oak, carpet, tile), got "wood"`,
+    );
+  });
+
+  it('runsFromCsv(text) shortens a long list of surfaces in the unknown-reading message', () => {
+    const surfaces = ['s1', 's2', 's3', 's4', 's5', 's6', 's7', 's8', 's9', 's10'];
+    expect(csvError('run,step,reading\nr1,0,S1\n', { surfaces })).toBe(
+      `runs.csv: reading at run "r1" step 0 must be one of the floor's surfaces (s1, s2, s3, s4, s5, s6, s7, s8 and 2 more), got "S1"`,
+    );
+  });
+
+  it('runsFromCsv(text) rejects a gap too long to fill with dropouts', () => {
+    const last = MAX_GAP_STEPS + 2;
+    expect(csvError(`run,step,reading\nr1,0,oak\nr1,${last},oak\n`)).toBe(
+      `runs.csv: run "r1" must miss at most ${MAX_GAP_STEPS} steps, got ${MAX_GAP_STEPS + 1} missing between step 0 and step ${last} (is the step column a sample index?)`,
+    );
+  });
+
+  it('runsFromCsv(text) names the file line of a bad row after a quoted line break', () => {
+    expect(csvError('run,step,reading,note\nr1,0,oak,"two\nlines"\nr1,x,oak,\n')).toBe(
+      'runs.csv: step of run "r1" at line 4 must be a whole number >= 0, got "x"',
+    );
+  });
+});
+
+describe('runsFromArrow(bytes, source, options)', () => {
+  it('runsFromArrow(bytes) reads Int32 steps and dictionary-encoded readings from an IPC file', () => {
+    const bytes = arrowBytes({
+      run: vectorFromArray(['a', 'a', 'b', 'a']),
+      step: vectorFromArray([2, 0, 0, 1], new Int32()),
+      reading: vectorFromArray(['tile', 'oak', null, 'carpet']),
+    });
+    const table = runsFromArrow(bytes, 'runs.arrow', OPTIONS);
+    expect(table.runs.map((r) => r.id)).toEqual(['a', 'b']);
+    expect([...table.runs[0].obs]).toEqual([OAK, CARPET, TILE]);
+    expect([...table.runs[0].rows]).toEqual([1, 3, 0]);
+    expect([...table.runs[1].obs]).toEqual([DROPOUT]);
+    expect(table.runs[1].nDropouts).toBe(1);
+    expect(table.columns.map((c) => [c.name, c.kind])).toEqual([
+      ['run', 'utf8'],
+      ['step', 'number'],
+      ['reading', 'utf8'],
+    ]);
+    expect(table.columns[1].get(0)).toBe(2);
+    expect(table.columns[2].get(2)).toBeNull();
+  });
+
+  it('runsFromArrow(bytes) reads an IPC stream the same as a file', () => {
+    const columns = {
+      run: vectorFromArray(['a', 'a'], new Utf8()),
+      step: vectorFromArray([0, 3], new Int32()),
+      reading: vectorFromArray(['oak', 'tile'], new Utf8()),
+    };
+    const fromFile = runsFromArrow(arrowBytes(columns), 'runs.arrow', OPTIONS);
+    const fromStream = runsFromArrow(arrowBytes(columns, true), 'runs.arrows', OPTIONS);
+    expect([...fromStream.runs[0].obs]).toEqual([...fromFile.runs[0].obs]);
+    expect([...fromStream.runs[0].obs]).toEqual([OAK, DROPOUT, DROPOUT, TILE]);
+    expect(fromStream.runs[0].nGapSteps).toBe(2);
+  });
+
+  it('runsFromArrow(bytes) accepts Int64 (bigint), whole Float64 and text steps', () => {
+    const steps: Vector[] = [
+      vectorFromArray([5n, 6n], new Int64()),
+      vectorFromArray([5, 6], new Float64()),
+      vectorFromArray(['5', '6'], new Utf8()),
+    ];
+    for (const step of steps) {
+      const table = runsFromArrow(
+        arrowBytes({ run: vectorFromArray(['a', 'a'], new Utf8()), step, reading: vectorFromArray(['oak', 'tile'], new Utf8()) }),
+        'runs.arrow',
+        OPTIONS,
+      );
+      expect(table.runs[0].firstStep).toBe(5);
+      expect([...table.runs[0].obs]).toEqual([OAK, TILE]);
+    }
+  });
+
+  it('runsFromArrow(bytes) keeps Int64 pass-through values as bigint with their Arrow type', () => {
+    const table = runsFromArrow(
+      arrowBytes({
+        run: vectorFromArray(['a'], new Utf8()),
+        step: vectorFromArray([0], new Int32()),
+        reading: vectorFromArray(['oak'], new Utf8()),
+        stamp: vectorFromArray([1_700_000_000_000_123n], new Int64()),
+      }),
+      'runs.arrow',
+      OPTIONS,
+    );
+    expect(table.columns[3].get(0)).toBe(1_700_000_000_000_123n);
+    expect(String(table.columns[3].arrowType)).toBe('Int64');
+  });
+
+  it('runsFromArrow(bytes) accepts numeric run ids as their text', () => {
+    const table = runsFromArrow(
+      arrowBytes({
+        run: vectorFromArray([17, 17], new Int32()),
+        step: vectorFromArray([0, 1], new Int32()),
+        reading: vectorFromArray(['oak', 'oak'], new Utf8()),
+      }),
+      'runs.arrow',
+      OPTIONS,
+    );
+    expect(table.runs[0].id).toBe('17');
+  });
+});
+
+describe('runsFromArrow(bytes, source, options) errors', () => {
+  const run = vectorFromArray(['a', 'a'], new Utf8());
+  const reading = vectorFromArray(['oak', 'tile'], new Utf8());
+
+  it('runsFromArrow(bytes) rejects a fractional step, naming the run and row', () => {
+    const bytes = arrowBytes({ run, step: vectorFromArray([0, 1.5], new Float64()), reading });
+    expect(arrowError(bytes)).toBe('runs.arrow: step of run "a" at row 2 must be a whole number >= 0, got 1.5');
+  });
+
+  it('runsFromArrow(bytes) rejects a null step', () => {
+    const bytes = arrowBytes({ run, step: vectorFromArray([0, null], new Int32()), reading });
+    expect(arrowError(bytes)).toBe('runs.arrow: step of run "a" at row 2 must be a whole number >= 0, got an empty value');
+  });
+
+  it('runsFromArrow(bytes) rejects a negative Int64 step', () => {
+    const bytes = arrowBytes({ run, step: vectorFromArray([0n, -3n], new Int64()), reading });
+    expect(arrowError(bytes)).toBe('runs.arrow: step of run "a" at row 2 must be a whole number >= 0, got -3');
+  });
+
+  it('runsFromArrow(bytes) rejects a null run id', () => {
+    const bytes = arrowBytes({ run: vectorFromArray(['a', null], new Utf8()), step: vectorFromArray([0, 1], new Int32()), reading });
+    expect(arrowError(bytes)).toBe('runs.arrow: run at row 2 must be a run id, got an empty value');
+  });
+
+  it('runsFromArrow(bytes) rejects a duplicate step', () => {
+    const bytes = arrowBytes({ run, step: vectorFromArray([4, 4], new Int32()), reading });
+    expect(arrowError(bytes)).toBe('runs.arrow: step 4 of run "a" must appear once, got it twice (row 1 and row 2)');
+  });
+
+  it('runsFromArrow(bytes) rejects a reading not in the surfaces', () => {
+    const bytes = arrowBytes({ run, step: vectorFromArray([0, 1], new Int32()), reading: vectorFromArray(['oak', 'Oak'], new Utf8()) });
+    expect(arrowError(bytes)).toBe(
+      `runs.arrow: reading at run "a" step 1 must be one of the floor's surfaces (oak, carpet, tile), got "Oak"`,
+    );
+  });
+
+  it('runsFromArrow(bytes) rejects a missing column, listing the columns present', () => {
+    const bytes = arrowBytes({ run, t: vectorFromArray([0, 1], new Int32()), reading });
+    expect(arrowError(bytes)).toBe(
+      'runs.arrow: the step column must be present, got no column "step" among "run", "t", "reading" (name another with --step-col)',
+    );
+  });
+
+  it('runsFromArrow(bytes) rejects a table with no rows', () => {
+    const bytes = arrowBytes({
+      run: vectorFromArray([], new Utf8()),
+      step: vectorFromArray([], new Int32()),
+      reading: vectorFromArray([], new Utf8()),
+    });
+    expect(arrowError(bytes)).toBe('runs.arrow: table must have at least one row of readings, got none');
+  });
+
+  it('runsFromArrow(bytes) rejects empty and unreadable bytes', () => {
+    expect(arrowError(new Uint8Array(0))).toBe('runs.arrow: file must be Arrow IPC (file or stream), got an empty file');
+    const text = new TextEncoder().encode('run,step,reading\nr1,0,oak\n');
+    expect(arrowError(text)).toMatch(/^runs\.arrow: file must be Arrow IPC \(file or stream\), got unreadable data \(.+\)$/);
+  });
+});
