@@ -54,12 +54,12 @@ export async function runEm(
     history.push(perReading);
     onIteration?.(iterations, perReading);
     if (previous !== undefined) {
-      if (perReading < previous - DECREASE_TOLERANCE * Math.abs(previous)) {
+      if (perReading < previous - DECREASE_TOLERANCE * Math.abs(previous) - 1e-15) {
         throw new WorkError(
           `EM iteration ${iterations}: the objective must not decrease, got ${previous} → ${perReading} per reading; this is a defect, please report it with the inputs`,
         );
       }
-      if (Math.abs(perReading - previous) <= options.tol * Math.abs(previous)) {
+      if (Math.abs(perReading - previous) <= options.tol * Math.abs(previous) + 1e-15) {
         return { model, iterations, stopReason: 'converged', history, logLikPerReading: counts.logLik / Math.max(1, counts.nReadings) };
       }
     }

@@ -46,7 +46,7 @@ export function runsFromArrow(bytes: Uint8Array, source: string, options: ReadRu
   const columns = vectors.map((vector, j) => arrowColumn(names[j], vector));
   const keys = resolveKeyColumns(names, options, source);
   const [runs, steps, readings] = [keys.runCol, keys.stepCol, keys.readingCol].map((name) =>
-    plainValues(vectors[names.indexOf(name)]),
+    keyValues(vectors[names.indexOf(name)]),
   );
   return buildRunsTable(
     {
@@ -54,9 +54,9 @@ export function runsFromArrow(bytes: Uint8Array, source: string, options: ReadRu
       nRows: table.numRows,
       columns,
       ...keys,
-      runAt: (row) => runs[row],
-      stepAt: (row) => steps[row],
-      readingAt: (row) => readings[row],
+      runAt: runs,
+      stepAt: steps,
+      readingAt: readings,
       locate: (row) => `row ${row + 1}`,
     },
     options,
@@ -123,13 +123,16 @@ function arrowColumn(name: string, vector: Vector): InputColumn {
   return { name, kind, arrowType: type, get };
 }
 
-/** A key column's values by row; typed arrays when there are no nulls to lose, else a plain array. */
-function plainValues(vector: Vector): ArrayLike<unknown> {
+/**
+ * Reads a key column by row. Numbers without nulls come from one typed array; other values are decoded
+ * per call and dropped soon after, which costs less than keeping millions of decoded strings.
+ */
+function keyValues(vector: Vector): (row: number) => unknown {
   const type = vector.type as DataType;
   const halfFloat = DataType.isFloat(type) && type.precision === Precision.HALF;
-  if (vector.nullCount === 0 && isNumeric(type) && !halfFloat) return vector.toArray() as ArrayLike<unknown>;
-  const values = new Array<unknown>(vector.length);
-  let row = 0;
-  for (const value of vector) values[row++] = toPlain(value);
-  return values;
+  if (vector.nullCount === 0 && isNumeric(type) && !halfFloat) {
+    const values = vector.toArray() as ArrayLike<unknown>;
+    return (row) => values[row];
+  }
+  return (row) => toPlain(vector.get(row));
 }

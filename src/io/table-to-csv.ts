@@ -19,15 +19,15 @@ export function* csvChunks(table: OutputTable, rowsPerChunk = 8192, where = 'out
   const nCols = columns.length;
   for (let first = 0; first < nRows; first += rowsPerChunk) {
     const last = Math.min(nRows, first + rowsPerChunk);
-    let chunk = '';
+    // Joined arrays give flat strings (repeated `+=` builds deep concatenation trees, slow to write out).
+    const lines = new Array<string>(last - first + 1);
+    const fields = new Array<string>(nCols);
     for (let row = first; row < last; row++) {
-      for (let j = 0; j < nCols; j++) {
-        if (j > 0) chunk += ',';
-        chunk += csvField(columns[j].get(row));
-      }
-      chunk += '\n';
+      for (let j = 0; j < nCols; j++) fields[j] = csvField(columns[j].get(row));
+      lines[row - first] = fields.join(',');
     }
-    yield chunk;
+    lines[last - first] = '';
+    yield lines.join('\n');
   }
 }
 
