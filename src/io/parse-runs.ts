@@ -1,7 +1,8 @@
 import { DataType, Precision, tableFromIPC, type Table, type Vector } from 'apache-arrow';
 import { InputError, quote } from '../errors.js';
-import { buildRunsTable, resolveKeyColumns } from './build-runs-table.js';
+import { buildRunsTable } from './build-runs-table.js';
 import { parseCsv } from './parse-csv.js';
+import { resolveKeyColumns } from './resolve-key-columns.js';
 import type { InputColumn, ReadRunsOptions, RunsTable } from './runs-table.js';
 
 /**

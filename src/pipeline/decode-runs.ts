@@ -60,12 +60,12 @@ export function decodeRuns(model: HmmModel, tables: RunsTable[], th: DecodeThres
   const ids = model.cells.map((c) => c.id);
   const num = (a: Float64Array) => (row: number) => (Number.isNaN(a[row]) ? null : a[row]);
   const cell = (a: Int32Array) => (row: number) => (a[row] < 0 ? null : ids[a[row]]);
-  const inputColumns: OutputColumn[] = tables[0].columns.map((c, k) => ({
-    name: c.name,
-    kind: 'passthrough',
-    arrowType: c.arrowType,
-    get: tables.length === 1 ? c.get : spanning(tables, k),
-  }));
+  const inputColumns: OutputColumn[] = tables[0].columns.map((c, k): OutputColumn => {
+    const get = tables.length === 1 ? (row: number) => c.get(row) : spanning(tables, k);
+    // The step column read from CSV is text; it was checked to be whole numbers, so Arrow output stores integers.
+    if (c.name === tables[0].stepCol && c.kind === 'utf8') return { name: c.name, kind: 'int32', get: (row) => Number(get(row)) };
+    return { name: c.name, kind: 'passthrough', arrowType: c.arrowType, get };
+  });
   const annotated: OutputTable = {
     nRows,
     columns: [

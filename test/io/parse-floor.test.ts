@@ -2,7 +2,7 @@ import { describe, expect, it } from 'vitest';
 import { InputError } from '../../src/errors.js';
 import { parseFloor } from '../../src/io/parse-floor.js';
 
-// Source for every rule checked here: /work/shared/CONTRACT.md, "Floor file" (format name, fields,
+// Source for every rule checked here: the product contract (shared/CONTRACT.md), "Floor file" (format name, fields,
 // defaults, and the list of errors). The floor is invented ("Wrenmoor Depot").
 
 type Json = Record<string, unknown>;
@@ -84,6 +84,14 @@ describe('parseFloor(text, source) on a valid file', () => {
     const doc = floorDoc();
     links(doc).push({ from: 'B1', to: 'B2', oneway: true });
     expect(parseFloor(JSON.stringify(doc), 'floor.json').links).toHaveLength(5);
+  });
+
+  it('parseFloor(text) counts a two-way link as a way out of both its cells', () => {
+    // C1's only link names it as "to": two-way, so C1 can leave along it.
+    const doc = floorDoc();
+    cells(doc).push({ id: 'C1', surface: 'tile', x: 3, y: 3 });
+    links(doc).push({ from: 'B2', to: 'C1' });
+    expect(parseFloor(JSON.stringify(doc), 'floor.json').cells.map((c) => c.id)).toContain('C1');
   });
 
   it('parseFloor(text) keeps ids and surfaces as written, spaces included', () => {

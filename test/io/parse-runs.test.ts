@@ -14,7 +14,7 @@ import { MAX_GAP_STEPS } from '../../src/io/build-runs-table.js';
 import { runsFromArrow, runsFromCsv } from '../../src/io/parse-runs.js';
 import { DROPOUT, type ReadRunsOptions } from '../../src/io/runs-table.js';
 
-// Source for every rule checked here: /work/shared/CONTRACT.md, "Runs table" (columns, sorting, gaps
+// Source for every rule checked here: the product contract (shared/CONTRACT.md), "Runs table" (columns, sorting, gaps
 // as dropouts, duplicate steps and unknown readings as errors, --unknown-readings dropout, column
 // options). Surfaces and runs are invented.
 
@@ -296,6 +296,23 @@ describe('runsFromArrow(bytes, source, options)', () => {
     );
     expect(table.columns[3].get(0)).toBe(1_700_000_000_000_123n);
     expect(String(table.columns[3].arrowType)).toBe('Int64');
+  });
+
+  it('runsFromArrow(bytes) reads a table split into several record batches', () => {
+    const part = (runs: string[], steps: number[], readings: Array<string | null>) =>
+      new Table({
+        run: vectorFromArray(runs, new Utf8()),
+        step: vectorFromArray(steps, new Int32()),
+        reading: vectorFromArray(readings, new Utf8()),
+      }).batches[0];
+    const table = new Table([part(['a', 'b'], [1, 0], ['tile', 'oak']), part(['a', 'b'], [0, 1], [null, 'carpet'])]);
+    expect(table.batches).toHaveLength(2);
+    const runs = runsFromArrow(tableToIPC(table, 'stream'), 'runs.arrows', OPTIONS);
+    expect(runs.runs.map((r) => [r.id, [...r.obs], [...r.rows]])).toEqual([
+      ['a', [DROPOUT, TILE], [2, 0]],
+      ['b', [OAK, CARPET], [1, 3]],
+    ]);
+    expect(runs.columns[0].get(3)).toBe('b');
   });
 
   it('runsFromArrow(bytes) accepts numeric run ids as their text', () => {
