@@ -1,33 +1,53 @@
 /**
- * Benchmark of the engine on generated grid buildings (see `make-scenario.ts` and `README.md`).
+ * Benchmark of the engine on generated grid buildings (see `make-scenario.ts` and `README.md`), side by
+ * side with two reference libraries when they are installed (see `peers.ts`).
  *
- *     npm run bench                                    # all sizes
- *     npm run build && node dist/bench/run-bench.js --sizes small,medium [--seed 1]
+ *     npm run bench                                    # all sizes, both peers
+ *     npm run build && node dist/bench/run-bench.js --sizes small,medium [--seed 1] [--peers none]
  *
- * Times, per size: scoring every run (forwardScore), decoding every run (decodeRun: Viterbi and
- * posteriors), one Baum-Welch iteration and twenty (emIteration, tied transitions, prior strength 10,
- * survey prior). Figures are measured wall-clock times on this machine, single-threaded.
+ * Times, per size: scoring every run, the Viterbi path of every run, decoding every run (Viterbi and
+ * posteriors), one and twenty Baum-Welch iterations as `fit` runs them (tied transitions, survey prior
+ * of strength 10), and one iteration of plain Baum-Welch (learned transitions, no prior: the peers'
+ * work); then the same model and runs through GHMM and pomegranate, checking that all three agree on
+ * the total log-likelihood. Every figure is a measured wall-clock time on this machine, in one thread.
  */
 import os from 'node:os';
 import { parseArgs } from 'node:util';
 import { makeScenario, SCENARIO_SIZES, type Scenario, type ScenarioSize } from './make-scenario.js';
+import { peerInput, runPeer, type PeerName, type PeerResult } from './peers.js';
 import { chainFromModel } from '../src/model/chain-from-model.js';
-import { forwardScore } from '../src/kernels/forward-score.js';
 import { decodeRun } from '../src/decode/decode-run.js';
+import { viterbiPath } from '../src/decode/viterbi-path.js';
 import { logChain } from '../src/decode/log-chain.js';
-import { emIteration } from '../src/fit/em-iteration.js';
-import { EStepWorkspace } from '../src/fit/e-step-workspace.js';
+import { LocalEngine } from '../src/fit/local-engine.js';
+import { packRuns, type PackedRuns } from '../src/fit/packed-runs.js';
+import { reduceBlocks } from '../src/fit/reduce-blocks.js';
 import { buildModel } from '../src/model/build-model.js';
 import { surveyPrior } from '../src/model/survey-prior.js';
-import type { HmmModel } from '../src/model/hmm-model.js';
+import { maximizeModel, type MaximizeOptions } from '../src/model/maximize-model.js';
+import type { HmmModel, TransitionMode } from '../src/model/hmm-model.js';
 import type { RunReadings } from '../src/fit/em-iteration.js';
 
 const ALL_SIZES = Object.keys(SCENARIO_SIZES) as ScenarioSize[];
+const ALL_PEERS: PeerName[] = ['ghmm', 'pomegranate'];
 const EM_ITERATIONS = 20;
 const PRIOR_STRENGTH = 10;
 const FIT_HIT = 0.8;
 const FIT_DWELL = 0.5;
+/** Runs per E-step block, as `fit` uses by default. */
+const BLOCK_SIZE = 8;
+/** Relative difference of the total log-likelihood allowed between underfoot and a peer. */
+const AGREEMENT = 1e-8;
 
+interface Options {
+  sizes: ScenarioSize[];
+  seed: number;
+  peers: PeerName[];
+  ghmmIterations: number[];
+  pomegranateIterations: number[];
+}
+
+/** One table row. `peerOp` names the peer operation it is compared with. */
 interface Row {
   size: string;
   cells: number;
@@ -35,43 +55,75 @@ interface Row {
   shape: string;
   operation: string;
   seconds: number;
+  cpuSeconds: number | null;
   /** Passes over all runs (20 for twenty EM iterations); null for rows with no per-step-link figure. */
   passes: number | null;
   totalSteps: number;
   rssMB: number;
+  peerOp: 'score' | 'viterbi' | 'baum-welch' | null;
+  versus: Partial<Record<PeerName, number>>;
   check: string;
 }
 
 function usage(message: string): never {
-  process.stderr.write(`run-bench: ${message}\nusage: node dist/bench/run-bench.js [--sizes small,medium,large] [--seed N]\n`);
+  process.stderr.write(
+    `run-bench: ${message}\nusage: node dist/bench/run-bench.js [--sizes small,medium,large] [--seed N] [--peers ghmm,pomegranate|none]` +
+      ` [--ghmm-iterations 1,3] [--pomegranate-iterations 1]\n`,
+  );
   process.exit(2);
 }
 
-function parseOptions(argv: string[]): { sizes: ScenarioSize[]; seed: number } {
-  let values: { sizes?: string; seed?: string };
+function parseList(name: string, text: string): number[] {
+  const list = text.split(',').map((s) => Number(s.trim()));
+  if (list.length === 0 || list.some((k) => !(Number.isInteger(k) && k > 0))) usage(`--${name} must list positive integers, got ${JSON.stringify(text)}`);
+  return list;
+}
+
+function parseOptions(argv: string[]): Options {
+  let values: Record<string, string | undefined>;
   try {
-    ({ values } = parseArgs({ args: argv, options: { sizes: { type: 'string' }, seed: { type: 'string' } }, strict: true }));
+    ({ values } = parseArgs({
+      args: argv,
+      options: {
+        sizes: { type: 'string' },
+        seed: { type: 'string' },
+        peers: { type: 'string' },
+        'ghmm-iterations': { type: 'string' },
+        'pomegranate-iterations': { type: 'string' },
+      },
+      strict: true,
+    }));
   } catch (err) {
     usage((err as Error).message);
   }
   const sizes = (values.sizes ?? ALL_SIZES.join(',')).split(',').map((s) => s.trim()).filter((s) => s !== '');
-  for (const s of sizes) {
-    if (!(ALL_SIZES as string[]).includes(s)) usage(`--sizes must list ${ALL_SIZES.join(', ')}, got ${JSON.stringify(s)}`);
-  }
+  for (const s of sizes) if (!(ALL_SIZES as string[]).includes(s)) usage(`--sizes must list ${ALL_SIZES.join(', ')}, got ${JSON.stringify(s)}`);
   if (sizes.length === 0) usage('--sizes must list at least one size, got nothing');
   const seed = values.seed === undefined ? 1 : Number(values.seed);
   if (!Number.isSafeInteger(seed)) usage(`--seed must be an integer, got ${JSON.stringify(values.seed)}`);
-  return { sizes: sizes as ScenarioSize[], seed };
+  const peerText = values.peers ?? ALL_PEERS.join(',');
+  const peers = peerText === 'none' ? [] : peerText.split(',').map((s) => s.trim());
+  for (const p of peers) if (!(ALL_PEERS as string[]).includes(p)) usage(`--peers must list ${ALL_PEERS.join(', ')} or be none, got ${JSON.stringify(p)}`);
+  return {
+    sizes: sizes as ScenarioSize[],
+    seed,
+    peers: peers as PeerName[],
+    ghmmIterations: parseList('ghmm-iterations', values['ghmm-iterations'] ?? '1,3'),
+    pomegranateIterations: parseList('pomegranate-iterations', values['pomegranate-iterations'] ?? '1'),
+  };
 }
 
 function peakRssMB(): number {
   return process.resourceUsage().maxRSS / 1024; // maxRSS is in kilobytes
 }
 
-function timed<T>(fn: () => T): { seconds: number; value: T } {
+async function timed<T>(fn: () => T | Promise<T>): Promise<{ seconds: number; cpuSeconds: number; value: T }> {
+  const cpu0 = process.cpuUsage();
   const t0 = process.hrtime.bigint();
-  const value = fn();
-  return { seconds: Number(process.hrtime.bigint() - t0) / 1e9, value };
+  const value = await fn();
+  const seconds = Number(process.hrtime.bigint() - t0) / 1e9;
+  const cpu = process.cpuUsage(cpu0);
+  return { seconds, cpuSeconds: (cpu.user + cpu.system) / 1e6, value };
 }
 
 function countReadings(runs: ReadonlyArray<RunReadings>): number {
@@ -80,12 +132,26 @@ function countReadings(runs: ReadonlyArray<RunReadings>): number {
   return n;
 }
 
-/** Σ log P(readings) of all runs by the O(nCells)-memory scaled forward pass. */
-function scoreAll(model: HmmModel, runs: ReadonlyArray<RunReadings>): number {
-  const chain = chainFromModel(model);
-  const work = new Float64Array(2 * chain.nCells);
+function toBlocks(nRuns: number): number[][] {
+  const blocks: number[][] = [];
+  for (let a = 0; a < nRuns; a += BLOCK_SIZE) blocks.push(Array.from({ length: Math.min(BLOCK_SIZE, nRuns - a) }, (_, k) => a + k));
+  return blocks;
+}
+
+/** Σ log P(readings) of all runs, as `fit` scores held-out runs. */
+async function scoreAll(model: HmmModel, packed: PackedRuns, blocks: number[][]): Promise<number> {
+  const engine = new LocalEngine(packed);
   let total = 0;
-  for (const run of runs) total += forwardScore(chain, run.obs, run.obs.length, work);
+  for (const b of await engine.score(model, blocks)) total += b.logLik;
+  return total;
+}
+
+/** Σ log P(Viterbi path, readings) over all runs. */
+function viterbiAll(model: HmmModel, runs: ReadonlyArray<RunReadings>): number {
+  const chain = chainFromModel(model);
+  const log = logChain(chain);
+  let total = 0;
+  for (const run of runs) total += viterbiPath(chain, log, run.obs, 64 * 1024 * 1024, new Int32Array(run.obs.length));
   return total;
 }
 
@@ -104,100 +170,166 @@ function decodeAll(model: HmmModel, runs: ReadonlyArray<RunReadings>, truePaths:
   return hits / steps;
 }
 
-/** `iterations` Baum-Welch iterations from the survey-prior start; returns the last input model's log-likelihood. */
-function fitAll(scenario: Scenario, runs: ReadonlyArray<RunReadings>, iterations: number): number {
-  let model = buildModel(scenario.floor, { dwell: FIT_DWELL, hit: FIT_HIT });
-  const index = new Map(scenario.floor.surfaces.map((s, r) => [s, r] as const));
-  const surfaceOfCell = Int32Array.from(scenario.floor.cells, (c) => index.get(c.surface) ?? -1);
-  const prior = surveyPrior(surfaceOfCell, scenario.floor.surfaces.length, FIT_HIT);
-  const ws = new EStepWorkspace();
+/**
+ * `iterations` Baum-Welch iterations the way `fit` does them in one thread (blocks of 8 runs through
+ * `LocalEngine`, reduced in block order, then `maximizeModel`); returns the log-likelihood of the model
+ * that went into the last iteration.
+ */
+async function baumWelch(start: HmmModel, packed: PackedRuns, blocks: number[][], options: MaximizeOptions & { mode: TransitionMode }, iterations: number): Promise<number> {
+  const engine = new LocalEngine(packed, { mode: options.mode });
+  let model = start;
   let logLik = NaN;
   for (let k = 0; k < iterations; k++) {
-    const result = emIteration(model, runs, { mode: 'tied', priorStrength: PRIOR_STRENGTH, prior }, ws);
-    model = result.model;
-    logLik = result.logLik;
+    const counts = reduceBlocks(model, packed, await engine.counts(model, blocks));
+    logLik = counts.logLik;
+    model = maximizeModel(model, counts, options);
   }
   return logLik;
 }
 
-/** Runs every operation once on a few short runs so the timed passes do not include JIT compilation. */
-function warmUp(seed: number): void {
-  const s = makeScenario('small', seed);
-  const runs = s.runs.slice(0, 5).map((r) => ({ id: r.id, obs: r.obs.subarray(0, 200) }));
-  const paths = s.truePaths.slice(0, 5).map((p) => p.subarray(0, 200));
-  scoreAll(s.truth, runs);
-  decodeAll(s.truth, runs, paths);
-  fitAll(s, runs, 2);
+function fitSetup(scenario: Scenario): { start: HmmModel; prior: Float64Array } {
+  const start = buildModel(scenario.floor, { dwell: FIT_DWELL, hit: FIT_HIT });
+  const index = new Map(scenario.floor.surfaces.map((s, r) => [s, r] as const));
+  const surfaceOfCell = Int32Array.from(scenario.floor.cells, (c) => index.get(c.surface) ?? -1);
+  return { start, prior: surveyPrior(surfaceOfCell, scenario.floor.surfaces.length, FIT_HIT) };
 }
 
-function benchSize(size: ScenarioSize, seed: number): Row[] {
-  const made = timed(() => makeScenario(size, seed));
+/** Runs every operation once on a few short runs so the timed passes do not include the JIT's first compilation. */
+async function warmUp(seed: number): Promise<void> {
+  const s = makeScenario('small', seed);
+  const runs = s.runs.slice(0, 10).map((r) => ({ id: r.id, obs: r.obs.subarray(0, 200) }));
+  const paths = s.truePaths.slice(0, 10).map((p) => p.subarray(0, 200));
+  const packed = packRuns(runs);
+  const blocks = toBlocks(runs.length);
+  const { start, prior } = fitSetup(s);
+  await scoreAll(start, packed, blocks);
+  viterbiAll(start, runs);
+  decodeAll(start, runs, paths);
+  await baumWelch(start, packed, blocks, { mode: 'tied', priorStrength: PRIOR_STRENGTH, prior }, 2);
+  await baumWelch(start, packed, blocks, { mode: 'learned', priorStrength: 0 }, 2);
+}
+
+async function benchSize(size: ScenarioSize, o: Options): Promise<{ rows: Row[]; agreement: string[]; ok: boolean }> {
+  const made = await timed(() => makeScenario(size, o.seed));
   const s = made.value;
   const spec = SCENARIO_SIZES[size];
   const totalSteps = s.runs.reduce((k, r) => k + r.obs.length, 0);
   const nReadings = countReadings(s.runs);
-  const base = {
-    size,
-    cells: s.floor.cells.length,
-    nnz: s.truth.structure.nnz,
-    shape: `${spec.nRuns} x ${spec.nSteps}`,
-    totalSteps,
-  };
+  const base = { size, cells: s.floor.cells.length, nnz: s.truth.structure.nnz, shape: `${spec.nRuns} x ${spec.nSteps}`, totalSteps };
   const rows: Row[] = [];
-  rows.push({ ...base, operation: 'make scenario', seconds: made.seconds, passes: null, rssMB: peakRssMB(), check: `${s.floor.links.length} links` });
+  const add = (operation: string, t: { seconds: number; cpuSeconds: number }, passes: number | null, peerOp: Row['peerOp'], check: string): void => {
+    rows.push({ ...base, operation, seconds: t.seconds, cpuSeconds: t.cpuSeconds, passes, rssMB: peakRssMB(), peerOp, versus: {}, check });
+  };
+  add('make scenario', made, null, null, `${s.floor.links.length} links`);
 
-  const score = timed(() => scoreAll(s.truth, s.runs));
-  rows.push({ ...base, operation: 'score (forward)', seconds: score.seconds, passes: 1, rssMB: peakRssMB(), check: `loglik/reading ${(score.value / nReadings).toFixed(4)}` });
+  const { start, prior } = fitSetup(s);
+  const packed = packRuns(s.runs);
+  const blocks = toBlocks(s.runs.length);
+  const score = await timed(() => scoreAll(start, packed, blocks));
+  add('score (forward)', score, 1, 'score', `loglik/reading ${(score.value / nReadings).toFixed(6)}`);
+  const viterbi = await timed(() => viterbiAll(start, s.runs));
+  add('Viterbi', viterbi, 1, 'viterbi', `path log P ${viterbi.value.toFixed(3)}`);
+  const decode = await timed(() => decodeAll(start, s.runs, s.truePaths));
+  add('decode (Viterbi+posteriors)', decode, 1, null, `path = true cell ${(100 * decode.value).toFixed(1)}%`);
+  const tied = { mode: 'tied' as const, priorStrength: PRIOR_STRENGTH, prior };
+  const em1 = await timed(() => baumWelch(start, packed, blocks, tied, 1));
+  add('Baum-Welch x1 (tied, prior)', em1, 1, 'baum-welch', `loglik/reading ${(em1.value / nReadings).toFixed(4)} (start)`);
+  const em20 = await timed(() => baumWelch(start, packed, blocks, tied, EM_ITERATIONS));
+  add(`Baum-Welch x${EM_ITERATIONS} (tied, prior)`, em20, EM_ITERATIONS, 'baum-welch', `loglik/reading ${(em20.value / nReadings).toFixed(4)} (iter ${EM_ITERATIONS})`);
+  const plain = await timed(() => baumWelch(start, packed, blocks, { mode: 'learned', priorStrength: 0 }, 1));
+  add('Baum-Welch x1 (learned, no prior)', plain, 1, 'baum-welch', `loglik/reading ${(plain.value / nReadings).toFixed(4)} (start)`);
 
-  const decode = timed(() => decodeAll(s.truth, s.runs, s.truePaths));
-  rows.push({ ...base, operation: 'decode (Viterbi+posteriors)', seconds: decode.seconds, passes: 1, rssMB: peakRssMB(), check: `path = true cell ${(100 * decode.value).toFixed(1)}%` });
-
-  const em1 = timed(() => fitAll(s, s.runs, 1));
-  rows.push({ ...base, operation: 'Baum-Welch x1', seconds: em1.seconds, passes: 1, rssMB: peakRssMB(), check: `loglik/reading ${(em1.value / nReadings).toFixed(4)} (start)` });
-
-  const em20 = timed(() => fitAll(s, s.runs, EM_ITERATIONS));
-  rows.push({ ...base, operation: `Baum-Welch x${EM_ITERATIONS}`, seconds: em20.seconds, passes: EM_ITERATIONS, rssMB: peakRssMB(), check: `loglik/reading ${(em20.value / nReadings).toFixed(4)} (iter ${EM_ITERATIONS})` });
-  return rows;
+  // Peers: the same start model and runs.
+  const agreement: string[] = [];
+  let ok = true;
+  for (const peer of o.peers) {
+    process.stderr.write(`  ${size}: ${peer}…\n`);
+    const calls = peer === 'ghmm' ? o.ghmmIterations : o.pomegranateIterations;
+    const res: PeerResult = runPeer(peer, peerInput(start, s.runs.map((r) => r.obs), calls));
+    if (!res.ran) {
+      rows.push({ ...base, operation: `${peer}: skipped — ${res.reason}`, seconds: NaN, cpuSeconds: null, passes: null, rssMB: NaN, peerOp: null, versus: {}, check: '' });
+      continue;
+    }
+    const peerRow = (operation: string, seconds: number, passes: number, check: string): void => {
+      rows.push({ ...base, operation, seconds, cpuSeconds: null, passes, rssMB: res.rssMB, peerOp: null, versus: {}, check });
+    };
+    peerRow(`${peer} score (forward)`, res.scoreSeconds, 1, `loglik/reading ${(res.logLik / nReadings).toFixed(6)}`);
+    peerRow(`${peer} Viterbi`, res.viterbiSeconds, 1, `path log P ${res.pathLogProb.toFixed(3)}`);
+    for (const call of res.baumWelch) peerRow(`${peer} Baum-Welch x${call.iterations}`, call.seconds, call.iterations, 'learned, no prior');
+    for (const row of rows) {
+      if (row.peerOp === null || row.passes === null) continue;
+      const ours = row.seconds / row.passes;
+      const theirs = row.peerOp === 'score' ? res.scoreSeconds : row.peerOp === 'viterbi' ? res.viterbiSeconds : res.secondsPerIteration;
+      row.versus[peer] = theirs / ours;
+    }
+    const relLik = Math.abs(res.logLik - score.value) / Math.abs(score.value);
+    const relPath = Math.abs(res.pathLogProb - viterbi.value) / Math.abs(viterbi.value);
+    const agrees = relLik <= AGREEMENT && relPath <= AGREEMENT;
+    ok &&= agrees;
+    agreement.push(
+      `${size}: ${peer} ${agrees ? 'agrees' : 'DISAGREES'} — total log-likelihood ${res.logLik} vs underfoot ${score.value} (relative difference ${relLik.toExponential(2)}), ` +
+        `Viterbi path log P ${res.pathLogProb} vs ${viterbi.value} (${relPath.toExponential(2)}); limit ${AGREEMENT}`,
+    );
+  }
+  return { rows, agreement, ok };
 }
 
-function formatTable(rows: Row[]): string {
-  const header = ['size', 'cells', 'nnz', 'runs x steps', 'operation', 'wall s', 'ns/step-link', 'peak RSS MB', 'check'];
+function formatTable(rows: Row[], peers: PeerName[]): string {
+  const header = ['size', 'cells', 'nnz', 'runs x steps', 'operation', 'wall s', 'cpu s', 'ns/step-link', 'peak RSS MB', ...peers.map((p) => `x ${p}`), 'check'];
   const body = rows.map((r) => [
     r.size,
     String(r.cells),
     String(r.nnz),
     r.shape,
     r.operation,
-    r.seconds.toFixed(3),
+    Number.isNaN(r.seconds) ? '-' : r.seconds.toFixed(3),
+    r.cpuSeconds === null ? '-' : r.cpuSeconds.toFixed(3),
     r.passes === null ? '-' : ((r.seconds * 1e9) / (r.passes * r.totalSteps * r.nnz)).toFixed(2),
-    r.rssMB.toFixed(0),
+    Number.isNaN(r.rssMB) ? '-' : r.rssMB.toFixed(0),
+    ...peers.map((p) => (r.versus[p] === undefined ? '-' : `${r.versus[p]!.toFixed(1)}x`)),
     r.check,
   ]);
   const widths = header.map((h, c) => Math.max(h.length, ...body.map((row) => row[c].length)));
-  const numeric = new Set([1, 2, 5, 6, 7]);
+  const numeric = new Set([1, 2, 5, 6, 7, 8, ...peers.map((_, k) => 9 + k)]);
   const line = (cells: string[]): string =>
     cells.map((v, c) => (numeric.has(c) ? v.padStart(widths[c]) : v.padEnd(widths[c]))).join('  ').trimEnd();
   return [line(header), line(widths.map((w) => '-'.repeat(w))), ...body.map(line)].join('\n');
 }
 
-function main(): void {
-  const { sizes, seed } = parseOptions(process.argv.slice(2));
+async function main(): Promise<void> {
+  const o = parseOptions(process.argv.slice(2));
   const cpus = os.cpus();
   console.log(`underfoot bench — node ${process.version}, ${os.platform()} ${os.arch()}`);
-  console.log(`cores (os.availableParallelism): ${os.availableParallelism()}; cpu: ${cpus[0]?.model ?? 'unknown'}`);
-  console.log(`sizes: ${sizes.join(', ')}; seed ${seed}; single-threaded; Baum-Welch: tied transitions, prior strength ${PRIOR_STRENGTH}, survey prior (hit ${FIT_HIT})`);
-  const w = timed(() => warmUp(seed + 1000));
+  console.log(`cores (os.availableParallelism): ${os.availableParallelism()}; cpu: ${cpus[0]?.model ?? 'unknown'}; load average ${os.loadavg().map((x) => x.toFixed(2)).join(' ')}`);
+  console.log(
+    `sizes: ${o.sizes.join(', ')}; seed ${o.seed}; one thread; blocks of ${BLOCK_SIZE} runs; ` +
+      `peers: ${o.peers.length ? o.peers.join(', ') : 'none'} (GHMM Baum-Welch calls ${o.ghmmIterations.join(',')}, pomegranate ${o.pomegranateIterations.join(',')})`,
+  );
+  const w = await timed(() => warmUp(o.seed + 1000));
   console.log(`warm-up: ${w.seconds.toFixed(2)} s`);
   console.log('');
   const rows: Row[] = [];
-  for (const size of sizes) {
-    rows.push(...benchSize(size, seed));
+  const agreement: string[] = [];
+  let ok = true;
+  for (const size of o.sizes) {
+    const res = await benchSize(size, o);
+    rows.push(...res.rows);
+    agreement.push(...res.agreement);
+    ok &&= res.ok;
     process.stderr.write(`done: ${size}\n`);
   }
-  console.log(formatTable(rows));
+  console.log(formatTable(rows, o.peers));
   console.log('');
-  console.log('ns/step-link = wall seconds × 1e9 / (passes × total steps × nnz); passes = 20 for "Baum-Welch x20", else 1.');
-  console.log('peak RSS = process-wide high-water mark (process.resourceUsage().maxRSS) after the operation.');
+  for (const line of agreement) console.log(line);
+  if (agreement.length) console.log('');
+  console.log('ns/step-link = wall seconds × 1e9 / (passes × total steps × nnz); passes = 20 for "x20" rows, K for a peer\'s "xK", else 1.');
+  console.log('x <peer> = the peer\'s seconds for the same operation (per Baum-Welch iteration for Baum-Welch rows) / underfoot\'s.');
+  console.log('Peer Baum-Welch is plain (learned transitions, no prior); per iteration from the difference of its timed calls.');
+  console.log('peak RSS = process high-water mark (process.resourceUsage().maxRSS) after the operation; for a peer, its own process.');
+  if (!ok) {
+    console.log('A peer disagrees with underfoot beyond the limit: the comparison is not of the same work.');
+    process.exitCode = 1;
+  }
 }
 
-main();
+await main();

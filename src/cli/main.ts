@@ -7,6 +7,8 @@ import { registerSimulate } from './simulate-command.js';
 import { registerFit } from './fit-command.js';
 import { registerDecode } from './decode-command.js';
 import { registerRun } from './run-command.js';
+import { registerReport } from './report-command.js';
+import { registerCompare } from './compare-command.js';
 
 /**
  * Runs the command line and returns the exit code: 0 success, 1 failure while working, 2 bad input or
@@ -26,6 +28,8 @@ export async function main(argv: string[], io: CliIo = processIo): Promise<numbe
   registerFit(program, io);
   registerDecode(program, io);
   registerRun(program, io);
+  registerReport(program, io);
+  registerCompare(program, io);
   for (const cmd of program.commands) cmd.exitOverride();
   const debug = argv.includes('--debug');
   try {

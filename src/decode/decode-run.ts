@@ -1,9 +1,9 @@
 import type { SparseChain } from '../kernels/sparse-chain.js';
-import { forwardScaled } from '../kernels/forward-scaled.js';
-import { viterbiLog } from '../kernels/viterbi-log.js';
-import { posteriorSummary } from '../kernels/posterior-summary.js';
+import { forwardSegment } from '../kernels/forward-segment.js';
+import { posteriorSummarySegment } from '../kernels/posterior-summary-segment.js';
+import { segmentSteps } from '../kernels/segment-steps.js';
 import type { LogChain } from './log-chain.js';
-import { backPointerArray } from './back-pointer-array.js';
+import { viterbiPath } from './viterbi-path.js';
 
 /** Everything decoded about one run, one entry per step. */
 export interface DecodedRun {
@@ -24,34 +24,32 @@ export interface DecodedRun {
   surpriseBits: Float64Array;
 }
 
+export interface DecodeOptions {
+  /**
+   * A run whose forward table (or Viterbi back-pointers) would take more bytes than this is decoded in
+   * checkpointed segments of ⌈√steps⌉ steps: memory then grows with √steps, for one more forward and
+   * one more Viterbi pass. The results are the same either way. @default 64 MiB
+   */
+  plainLimitBytes?: number;
+}
+
+const DEFAULT_PLAIN_LIMIT_BYTES = 64 * 1024 * 1024;
+
 /**
  * Decodes one run: the Viterbi path and its log-probability, and per step the posterior of the path's
  * cell, the posterior-marginal best cell and its probability, the posterior entropy and the reading's
  * surprise (from the forward scaling factors: P(o_t | o_<t) = 1 / c_t). `log` is `logChain(chain)`.
+ * Besides its outputs (a few numbers per step), a long run needs memory only in proportion to √steps
+ * (checkpointed forward-backward and Viterbi, see `DecodeOptions`).
  */
-export function decodeRun(chain: SparseChain, log: LogChain, obs: Int32Array): DecodedRun {
+export function decodeRun(chain: SparseChain, log: LogChain, obs: Int32Array, options: DecodeOptions = {}): DecodedRun {
+  const limit = options.plainLimitBytes ?? DEFAULT_PLAIN_LIMIT_BYTES;
   const n = chain.nCells;
   const T = obs.length;
-  const alpha = new Float64Array(n * T);
-  const scale = new Float64Array(T);
-  const logLik = forwardScaled(chain, obs, T, alpha, scale);
   const path = new Int32Array(T);
-  const pathLogProb = viterbiLog(
-    n,
-    chain.nReadings,
-    log.logStart,
-    chain.predPtr,
-    chain.predIdx,
-    log.logPredProb,
-    log.logEmitT,
-    obs,
-    T,
-    new Float64Array(2 * n),
-    backPointerArray(n, n * T),
-    path,
-  );
+  const pathLogProb = viterbiPath(chain, log, obs, limit, path);
   const out: DecodedRun = {
-    logLik,
+    logLik: 0,
     path,
     pathLogProb,
     pathP: new Float64Array(T).fill(NaN),
@@ -60,8 +58,37 @@ export function decodeRun(chain: SparseChain, log: LogChain, obs: Int32Array): D
     entropyBits: new Float64Array(T).fill(NaN),
     surpriseBits: new Float64Array(T).fill(NaN),
   };
+  if (T === 0) return out;
+
+  // Forward, keeping the entry vector of every segment when the run is checkpointed.
+  const segment = segmentSteps(T, 8 * n, limit);
+  const nSegments = Math.ceil(T / segment);
+  const table = new Float64Array((segment + 1) * n);
+  const scale = new Float64Array(T);
+  const checkpoints = new Float64Array(nSegments > 1 ? nSegments * n : 0);
+  let logLik = 0;
+  for (let g = 0; g < nSegments && logLik !== -Infinity; g++) {
+    if (g > 0) {
+      table.copyWithin(0, segment * n, (segment + 1) * n);
+      checkpoints.set(table.subarray(0, n), g * n);
+    }
+    logLik = forwardSegment(chain, obs, g * segment, Math.min(T, (g + 1) * segment), table, scale, logLik);
+  }
+  out.logLik = logLik;
   if (logLik === -Infinity) return out;
-  posteriorSummary(chain, obs, T, alpha, scale, path, new Float64Array(2 * n), out.likelyCell, out.likelyP, out.pathP, out.entropyBits);
+
+  // Backward with the per-step summaries, last segment first, earlier ones recomputed from checkpoints.
+  const w = new Float64Array(n);
+  const wSpare = new Float64Array(n);
+  for (let g = nSegments - 1; g >= 0; g--) {
+    const a = g * segment;
+    const b = Math.min(T, a + segment);
+    if (g < nSegments - 1) {
+      if (g > 0) table.set(checkpoints.subarray(g * n, (g + 1) * n), 0);
+      forwardSegment(chain, obs, a, b, table, scale, 0);
+    }
+    posteriorSummarySegment(chain, obs, a, b, table, scale, path, w, wSpare, out.likelyCell, out.likelyP, out.pathP, out.entropyBits);
+  }
   for (let t = 0; t < T; t++) if (obs[t] >= 0) out.surpriseBits[t] = Math.log2(scale[t]);
   return out;
 }

@@ -16,6 +16,7 @@ import { PoolEngine } from './pool-engine.js';
 import type { FitOptions, FitRecord, LoopRecord } from './fit-record.js';
 import { TOOL_VERSION } from '../version.js';
 import { selectRestart } from './select-restart.js';
+import { reduceBlocks } from './reduce-blocks.js';
 
 export interface FitInput {
   floor: FloorGraph;
@@ -26,6 +27,11 @@ export interface FitInput {
   runsDigests: Array<{ file: string; sha256: string }>;
   /** Model to start from (`--from`), already checked against the floor. */
   warmStart?: HmmModel;
+  /**
+   * Centre of the emission prior, cells × readings (default: the survey prior from `hit`). `compare`
+   * centres it on the old model's rows, so a re-fit moves only the cells whose new readings demand it.
+   */
+  prior?: Float64Array;
 }
 
 /** Progress events, for the CLI to draw; nothing here prints. */
@@ -79,7 +85,7 @@ export async function fitModel(
   const packed = packRuns(runs, workers > 1);
   const base = input.warmStart ? intoFamily(input.warmStart, o) : buildModel(floor, { dwell: o.dwell, hit: o.hit });
   const surfaceIndex = new Map(floor.surfaces.map((s, r) => [s, r] as const));
-  const prior = surveyPrior(Int32Array.from(floor.cells, (c) => surfaceIndex.get(c.surface) ?? 0), floor.surfaces.length, o.hit);
+  const prior = input.prior ?? surveyPrior(Int32Array.from(floor.cells, (c) => surfaceIndex.get(c.surface) ?? 0), floor.surfaces.length, o.hit);
   const loopOptions: EmLoopOptions = { mode: o.transitions, priorStrength: o.priorStrength, prior, maxIter: o.maxIter, tol: o.tol };
   const fitBlocks = toBlocks(split.fit, o.blockSize);
   const heldBlocks = toBlocks(split.heldOut, o.blockSize);
@@ -125,6 +131,7 @@ export async function fitModel(
         startDwell: restarts[selected].startDwell,
       };
     }
+    const cellReadings = await finalCounts(engine, packed, model, allBlocks);
     const count = (idx: number[]): number => idx.reduce((sum, r) => sum + countReadings(packed, r), 0);
     const record: FitRecord = {
       tool: 'underfoot',
@@ -138,11 +145,20 @@ export async function fitModel(
       selected,
       selectedBy: byHeldOut ? 'held-out' : 'training',
       finalPass,
+      cellReadings,
     };
     return { model, record };
   } finally {
     await engine.close();
   }
+}
+
+/** Expected readings per cell and surface over all runs under `model` (one more E-step). */
+async function finalCounts(engine: EStepEngine, packed: PackedRuns, model: HmmModel, blocks: number[][]): Promise<number[][]> {
+  const counts = reduceBlocks(model, packed, await engine.counts(model, blocks));
+  const n = model.cells.length;
+  const m = model.surfaces.length;
+  return model.cells.map((_, i) => Array.from({ length: m }, (_, r) => counts.emitT[r * n + i]));
 }
 
 function toBlocks(indices: number[], size: number): number[][] {

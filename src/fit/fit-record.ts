@@ -52,4 +52,9 @@ export interface FitRecord {
   selected: number;
   selectedBy: 'held-out' | 'training';
   finalPass: LoopRecord | null;
+  /**
+   * Expected readings per cell (rows, cell order) and surface (columns) over all runs under the final
+   * model: the evidence behind each emission row, used by `compare` to test later runs against it.
+   */
+  cellReadings?: number[][];
 }

@@ -1,6 +1,11 @@
-import type { SparseChain } from '../kernels/sparse-chain.js';
-import { forwardScore } from '../kernels/forward-score.js';
+import { LANES, type SparseChain } from '../kernels/sparse-chain.js';
+import { fillLaneGroup } from '../kernels/fill-lane-group.js';
+import { forwardLanes } from '../kernels/forward-lanes.js';
+import { forwardLanesUniform } from '../kernels/forward-lanes-uniform.js';
+import { forwardSegment } from '../kernels/forward-segment.js';
+import type { EStepWorkspace } from './e-step-workspace.js';
 import type { PackedRuns } from './packed-runs.js';
+import { laneGroups } from './lane-groups.js';
 
 export interface BlockScore {
   logLik: number;
@@ -9,19 +14,65 @@ export interface BlockScore {
   impossibleRun: number;
 }
 
-/** Σ log P(readings) of one block of runs (forward only, O(cells) memory per run), in the block's order. */
-export function scoreBlock(chain: SparseChain, packed: PackedRuns, runs: ArrayLike<number>, work: Float64Array): BlockScore {
+/** Forward rows kept while scoring: a short rolling window that stays in cache (about 256 KiB). */
+const WINDOW_BYTES = 256 * 1024;
+
+/**
+ * Σ log P(readings) of one block of runs, added in block order. Forward pass only, in a rolling window
+ * of rows (memory independent of run length); runs of similar length go through `forwardLanes` `LANES`
+ * at a time (the same grouping as `accumulateBlock`), a run left alone through `forwardSegment`. A run's
+ * log-likelihood is the same number either way, and the same as the E-step's.
+ */
+export function scoreBlock(chain: SparseChain, packed: PackedRuns, runs: ArrayLike<number>, ws: EStepWorkspace): BlockScore {
+  const obsOf = (r: number): Int32Array => packed.obs.subarray(packed.offsets[r], packed.offsets[r + 1]);
+  const logs = new Float64Array(runs.length);
+  const laneLogs = new Float64Array(LANES);
+  for (const members of laneGroups(runs, packed.offsets)) {
+    if (members.length === 1) {
+      logs[members[0]] = scoreOne(chain, obsOf(runs[members[0]]), ws);
+    } else {
+      scoreLanes(chain, members.map((b) => obsOf(runs[b])), ws, laneLogs);
+      members.forEach((b, k) => (logs[b] = laneLogs[k]));
+    }
+  }
   let logLik = 0;
   let nReadings = 0;
   for (let b = 0; b < runs.length; b++) {
-    const r = runs[b];
-    const a = packed.offsets[r];
-    const z = packed.offsets[r + 1];
-    const obs = packed.obs.subarray(a, z);
-    const logP = forwardScore(chain, obs, z - a, work);
-    if (logP === -Infinity) return { logLik: -Infinity, nReadings, impossibleRun: r };
-    logLik += logP;
-    for (let t = a; t < z; t++) if (packed.obs[t] >= 0) nReadings++;
+    if (logs[b] === -Infinity) return { logLik: -Infinity, nReadings, impossibleRun: runs[b] };
+    logLik += logs[b];
+    const obs = obsOf(runs[b]);
+    for (let t = 0; t < obs.length; t++) if (obs[t] >= 0) nReadings++;
   }
   return { logLik, nReadings, impossibleRun: -1 };
+}
+
+function scoreOne(chain: SparseChain, obs: Int32Array, ws: EStepWorkspace): number {
+  const n = chain.nCells;
+  const T = obs.length;
+  const window = Math.max(1, Math.floor(WINDOW_BYTES / (8 * n)) - 1);
+  ws.ensure(n, chain.nReadings, chain.outPtr[n], 1, T, window, 1);
+  let logP = 0;
+  for (let a = 0; a < T; a += window) {
+    const b = Math.min(T, a + window);
+    if (a > 0) ws.table.copyWithin(0, window * n, (window + 1) * n);
+    logP = forwardSegment(chain, obs, a, b, ws.table, ws.scale, logP);
+    if (logP === -Infinity) break;
+  }
+  return logP;
+}
+
+function scoreLanes(chain: SparseChain, runs: Int32Array[], ws: EStepWorkspace, logOut: Float64Array): void {
+  const n = chain.nCells;
+  const row = LANES * n;
+  const group = fillLaneGroup(runs, n, chain.nReadings, ws.group);
+  const T = group.nSteps;
+  const window = Math.max(1, Math.floor(WINDOW_BYTES / (8 * row)) - 1);
+  ws.ensure(n, chain.nReadings, chain.outPtr[n], LANES, T, window, 1);
+  logOut.fill(0);
+  for (let a = 0; a < T; a += window) {
+    const b = Math.min(T, a + window);
+    if (a > 0) ws.table.copyWithin(0, window * row, (window + 1) * row);
+    if (chain.uniformLinks) forwardLanesUniform(chain, group, a, b, ws.table, ws.scale, ws.spread, logOut);
+    else forwardLanes(chain, group, a, b, ws.table, ws.scale, logOut);
+  }
 }

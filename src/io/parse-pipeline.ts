@@ -10,7 +10,7 @@ export const PIPELINE_FIT_KEYS = [
   'maxIter', 'tol', 'workers', 'finalPass', 'from',
 ];
 const DECODE_KEYS = ['lowConfidence', 'surprisingBits'];
-const OUT_KEYS = ['dir', 'model', 'annotated', 'summary'];
+const OUT_KEYS = ['dir', 'model', 'annotated', 'summary', 'report'];
 
 /**
  * Reads the text of a pipeline file. Unknown keys anywhere are errors (a typo must not be silently
@@ -75,9 +75,10 @@ export function parsePipeline(text: string, source: string): PipelineFile {
     if (typeof v !== 'string' || !v) fail(`"out.${k}" must be a file name, got ${quote(v)}`);
     return resolve(dir, v as string);
   };
-  const out = { dir, model: name('model'), annotated: name('annotated'), summary: name('summary') };
+  const out = { dir, model: name('model'), annotated: name('annotated'), summary: name('summary'), report: name('report') };
   if (fit && !out.model) fail('"out.model" must name the model file to write when the pipeline fits');
-  if (!out.annotated && !out.summary && !out.model) fail('"out" must name at least one output (model, annotated, summary)');
+  if (!out.annotated && !out.summary && !out.model && !out.report) fail('"out" must name at least one output (model, annotated, summary, report)');
+  if (out.report && !/\.html?$/i.test(out.report)) fail(`"out.report" must be a file name ending in .html, got ${quote(o.report)}`);
   return { source, floor, runs, columns, model, fit, decode, out };
 }
 

@@ -10,7 +10,8 @@ export interface PipelineFile {
   /** Fit options in camelCase (`fit` flags), or null to skip fitting. */
   fit: Record<string, unknown> | null;
   decode: { lowConfidence?: number; surprisingBits?: number } | null;
-  out: { dir: string; model: string | null; annotated: string | null; summary: string | null };
+  /** `report`: the HTML report (our addition), written last. */
+  out: { dir: string; model: string | null; annotated: string | null; summary: string | null; report: string | null };
 }
 
 export const PIPELINE_FORMAT = 'underfoot-pipeline/1';

@@ -1,7 +1,10 @@
 import type { SparseChain } from '../kernels/sparse-chain.js';
 import type { HmmModel } from './hmm-model.js';
 
-/** The kernels' typed-array view of a model: CSC copy of the transitions, transposed emissions with a row of ones for dropouts. */
+/**
+ * The kernels' typed-array view of a model: CSC copy of the transitions, the dwell/link split of both
+ * orders (see `SparseChain`), transposed emissions with a row of ones for dropouts.
+ */
 export function chainFromModel(model: Pick<HmmModel, 'surfaces' | 'structure' | 'start' | 'trans' | 'emission'>): SparseChain {
   const s = model.structure;
   const n = s.nCells;
@@ -11,6 +14,57 @@ export function chainFromModel(model: Pick<HmmModel, 'surfaces' | 'structure' | 
   const emitT = new Float64Array((m + 1) * n);
   for (let i = 0; i < n; i++) for (let r = 0; r < m; r++) emitT[r * n + i] = model.emission[i * m + r];
   emitT.fill(1, m * n);
+
+  // Dwell/link split. Found from the indices (not `structure.dwellPos`) so that any structure works.
+  const dwell = new Float64Array(n);
+  const dwellPos = new Int32Array(n).fill(-1);
+  let nDwell = 0;
+  for (let i = 0; i < n; i++) {
+    for (let k = s.succPtr[i]; k < s.succPtr[i + 1]; k++) {
+      if (s.succIdx[k] === i) {
+        dwell[i] = model.trans[k];
+        dwellPos[i] = k;
+        nDwell++;
+      }
+    }
+  }
+  const nLinks = s.nnz - nDwell;
+  const outPtr = new Int32Array(n + 1);
+  const outIdx = new Int32Array(nLinks);
+  const outProb = new Float64Array(nLinks);
+  const outPos = new Int32Array(nLinks);
+  let q = 0;
+  for (let i = 0; i < n; i++) {
+    for (let k = s.succPtr[i]; k < s.succPtr[i + 1]; k++) {
+      if (s.succIdx[k] === i) continue;
+      outIdx[q] = s.succIdx[k];
+      outProb[q] = model.trans[k];
+      outPos[q] = k;
+      q++;
+    }
+    outPtr[i + 1] = q;
+  }
+  const linkProb = new Float64Array(n);
+  let uniformLinks = true;
+  for (let i = 0; i < n; i++) {
+    const first = outPtr[i] < outPtr[i + 1] ? outProb[outPtr[i]] : 0;
+    for (let k = outPtr[i] + 1; k < outPtr[i + 1]; k++) if (outProb[k] !== first) linkProb[i] = NaN;
+    if (Number.isNaN(linkProb[i])) uniformLinks = false;
+    else linkProb[i] = first;
+  }
+  const inPtr = new Int32Array(n + 1);
+  const inIdx = new Int32Array(nLinks);
+  const inProb = new Float64Array(nLinks);
+  q = 0;
+  for (let j = 0; j < n; j++) {
+    for (let p = s.predPtr[j]; p < s.predPtr[j + 1]; p++) {
+      if (s.predIdx[p] === j) continue;
+      inIdx[q] = s.predIdx[p];
+      inProb[q] = predProb[p];
+      q++;
+    }
+    inPtr[j + 1] = q;
+  }
   return {
     nCells: n,
     nReadings: m,
@@ -24,5 +78,16 @@ export function chainFromModel(model: Pick<HmmModel, 'surfaces' | 'structure' | 
     predProb,
     predToSucc: s.predToSucc,
     emitT,
+    dwell,
+    dwellPos,
+    inPtr,
+    inIdx,
+    inProb,
+    outPtr,
+    outIdx,
+    outProb,
+    outPos,
+    uniformLinks,
+    linkProb,
   };
 }

@@ -7,6 +7,7 @@ import { DEFAULT_KEY_COLUMNS, type KeyColumns } from './key-columns.js';
 import { resolveFitOptions } from './resolve-fit-options.js';
 import { fitFromFiles, type FitOutcome } from './fit-from-files.js';
 import { decodeFromFiles, type DecodeOutcome } from './decode-from-files.js';
+import { reportToFile } from './report-to-file.js';
 import { InputError } from '../errors.js';
 
 export interface PipelineOutcome {
@@ -60,6 +61,14 @@ export async function runPipeline(path: string, onProgress?: (p: FitProgress) =>
     if (annotated) written.push(annotated);
     if (p.out.summary) written.push(p.out.summary);
     warnings.push(...decode.warnings.filter((w) => !warnings.includes(w)));
+  }
+  if (p.out.report) {
+    const report = await reportToFile(
+      { model: fit ? p.out.model! : p.model!, floor: p.floor, annotated: p.out.annotated, summary: p.out.summary, changes: null, out: p.out.report, keys, ambiguity: {} },
+      fit ? fit.file : undefined,
+    );
+    written.push(p.out.report);
+    warnings.push(...report.warnings.filter((w) => !warnings.includes(w)));
   }
   return { fit, decode, written, warnings };
 }

@@ -29,7 +29,7 @@ describe('check', () => {
 });
 
 describe('--help', () => {
-  for (const cmd of ['', 'check', 'simulate', 'fit', 'decode', 'run']) {
+  for (const cmd of ['', 'check', 'simulate', 'fit', 'decode', 'run', 'compare', 'report']) {
     it(`underfoot ${cmd || '(no command)'} --help is readable (snapshot)`, () => {
       const r = runCli(cmd ? [cmd, '--help'] : ['--help']);
       expect(r.code).toBe(0);

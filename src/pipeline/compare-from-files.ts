@@ -1,0 +1,156 @@
+import { readFloor } from '../io/read-floor.js';
+import { readModel } from '../io/read-model.js';
+import { fileDigest } from '../io/file-digest.js';
+import { formatModel } from '../io/format-model.js';
+import { formatFloor } from '../io/format-floor.js';
+import { writeFileAtomic } from '../io/write-atomic.js';
+import { writeTable } from '../io/write-table.js';
+import type { OutputTable } from '../io/output-table.js';
+import type { ModelFile } from '../io/model-file.js';
+import { checkModelFloor } from '../model/check-model-floor.js';
+import { chainFromModel } from '../model/chain-from-model.js';
+import type { HmmModel } from '../model/hmm-model.js';
+import type { FloorGraph } from '../model/floor-graph.js';
+import { forwardScore } from '../kernels/forward-score.js';
+import { fitModel, type FitProgress } from '../fit/fit-model.js';
+import { emIteration } from '../fit/em-iteration.js';
+import type { FitOptions } from '../fit/fit-record.js';
+import { compareCells, type CellChange, type CompareOptions } from '../compare/compare-cells.js';
+import type { KeyColumns } from './key-columns.js';
+import { loadRuns } from './load-runs.js';
+
+export interface CompareConfig {
+  model: string;
+  floor: string;
+  runs: string[];
+  /** Changes table (.csv / .arrow / .arrows), or null not to write one. */
+  out: string | null;
+  refit: string | null;
+  writeFloor: string | null;
+  compare: CompareOptions;
+  /** Options of the warm-started re-fit (restart 0 starts from the old model). */
+  fit: FitOptions;
+  workers: number;
+  keys: KeyColumns;
+}
+
+export interface RunShift {
+  run: string;
+  readings: number;
+  before: number;
+  after: number;
+}
+
+export interface CompareOutcome {
+  changes: CellChange[];
+  nChanged: number;
+  nTested: number;
+  nTooFew: number;
+  runs: RunShift[];
+  /** Log-likelihood per reading of the new runs under the old and the re-fitted model. */
+  beforePerReading: number;
+  afterPerReading: number;
+  refit: ModelFile;
+  /** Calibration factor the G statistics were divided by. */
+  inflation: number;
+  newFloor: FloorGraph | null;
+  warnings: string[];
+}
+
+/**
+ * `compare`: after flooring changes, which cells changed. Scores the new runs under the old model, re-fits
+ * by EM warm-started from the old model (`fit --from`), takes each cell's expected reading counts under
+ * the re-fitted model, tests them against the old row (G test, Benjamini–Hochberg), and writes the
+ * changes table, optionally the re-fitted model and a floor whose changed cells carry their new surface.
+ */
+export async function compareFromFiles(config: CompareConfig, onProgress?: (p: FitProgress) => void): Promise<CompareOutcome> {
+  const floor = await readFloor(config.floor);
+  const old = await readModel(config.model);
+  checkModelFloor(old.model, config.model, floor, config.floor);
+  const loaded = await loadRuns(config.runs, { surfaces: floor.surfaces, ...config.keys });
+  const options: FitOptions = { ...config.fit, fromDigest: await fileDigest(config.model) };
+  const { model: refit, record } = await fitModel(
+    {
+      floor,
+      runs: loaded.runs,
+      floorDigest: await fileDigest(config.floor),
+      runsDigests: loaded.digests,
+      warmStart: old.model,
+      prior: old.model.emission.slice(),
+    },
+    options,
+    config.workers,
+    onProgress,
+  );
+  // Readings are attributed to cells by the RE-FITTED model: under the old model a changed cell's new
+  // readings would be credited to look-alike neighbours and the change would hide itself.
+  const counts = emIteration(refit, loaded.runs, { mode: 'fixed', priorStrength: 0 }).counts;
+  const { changes, inflation } = compareCells(old.model, oldCountsT(old), counts.emitT, config.compare);
+  const runs = scoreShift(old.model, refit, loaded.runs);
+  const readings = runs.reduce((s, r) => s + r.readings, 0);
+  const before = runs.reduce((s, r) => s + r.before, 0) / Math.max(1, readings);
+  const after = runs.reduce((s, r) => s + r.after, 0) / Math.max(1, readings);
+  const refitFile: ModelFile = { name: old.name, model: refit, fit: record };
+  let newFloor: FloorGraph | null = null;
+  if (config.writeFloor) {
+    const changed = new Map(changes.filter((c) => c.verdict === 'changed').map((c) => [c.cell, c.surfaceAfter]));
+    newFloor = { ...floor, cells: floor.cells.map((c) => (changed.has(c.id) ? { ...c, surface: changed.get(c.id)! } : c)) };
+  }
+  if (config.out) await writeTable(config.out, changesTable(changes));
+  if (config.refit) await writeFileAtomic(config.refit, formatModel(refitFile));
+  if (config.writeFloor && newFloor) await writeFileAtomic(config.writeFloor, formatFloor(newFloor));
+  return {
+    changes,
+    nChanged: changes.filter((c) => c.verdict === 'changed').length,
+    nTested: changes.filter((c) => c.verdict !== 'too-few-readings').length,
+    nTooFew: changes.filter((c) => c.verdict === 'too-few-readings').length,
+    runs,
+    beforePerReading: before,
+    afterPerReading: after,
+    refit: refitFile,
+    inflation,
+    newFloor,
+    warnings: loaded.warnings,
+  };
+}
+
+/** The old fit's expected readings (readings × cells), when the model file recorded them. */
+function oldCountsT(file: ModelFile): Float64Array | null {
+  const rows = file.fit?.cellReadings;
+  const n = file.model.cells.length;
+  const m = file.model.surfaces.length;
+  if (!Array.isArray(rows) || rows.length !== n || !rows.every((r) => Array.isArray(r) && r.length === m && r.every((v) => Number.isFinite(v) && v >= 0))) return null;
+  const t = new Float64Array(n * m);
+  rows.forEach((row, i) => row.forEach((v, r) => (t[r * n + i] = v)));
+  return t;
+}
+
+function scoreShift(oldModel: HmmModel, newModel: HmmModel, runs: ReadonlyArray<{ id: string; obs: Int32Array }>): RunShift[] {
+  const a = chainFromModel(oldModel);
+  const b = chainFromModel(newModel);
+  const work = new Float64Array(2 * a.nCells);
+  return runs.map((r) => {
+    let readings = 0;
+    for (let t = 0; t < r.obs.length; t++) if (r.obs[t] >= 0) readings++;
+    return { run: r.id, readings, before: forwardScore(a, r.obs, r.obs.length, work), after: forwardScore(b, r.obs, r.obs.length, work) };
+  });
+}
+
+/** The changes table: `cell`, `surface_before`, `surface_after`, `expected_readings`, `tv_distance`, `g_stat`, `p_value`, `q_value`, `verdict`. */
+export function changesTable(changes: CellChange[]): OutputTable {
+  return {
+    nRows: changes.length,
+    columns: [
+      { name: 'cell', kind: 'utf8', get: (r) => changes[r].cell },
+      { name: 'surface_before', kind: 'utf8', get: (r) => changes[r].surfaceBefore },
+      { name: 'surface_after', kind: 'utf8', get: (r) => changes[r].surfaceAfter },
+      { name: 'expected_readings', kind: 'float64', get: (r) => changes[r].expectedReadings },
+      { name: 'tv_distance', kind: 'float64', get: (r) => changes[r].tvDistance },
+      { name: 'g_stat', kind: 'float64', get: (r) => changes[r].gStat }, // Infinity when the old row forbade a reading now seen
+      { name: 'p_value', kind: 'float64', get: (r) => changes[r].pValue },
+      { name: 'q_value', kind: 'float64', get: (r) => changes[r].qValue },
+      { name: 'verdict', kind: 'utf8', get: (r) => changes[r].verdict },
+    ],
+  };
+}
+

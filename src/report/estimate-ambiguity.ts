@@ -1,0 +1,153 @@
+import type { HmmModel } from '../model/hmm-model.js';
+import { chainFromModel } from '../model/chain-from-model.js';
+import { sampleRun } from '../model/sample-run.js';
+import { SeededRandom } from '../model/seeded-random.js';
+import { forwardScaled } from '../kernels/forward-scaled.js';
+import { backwardScaled } from '../kernels/backward-scaled.js';
+import { posteriorMarginals } from '../kernels/posterior-marginals.js';
+
+export interface AmbiguityOptions {
+  /** Simulated runs. @default 100 */
+  runs: number;
+  /** Steps per simulated run. @default 400 */
+  steps: number;
+  /** Seed of the simulation. @default 1 */
+  seed: number;
+  /** Share of readings replaced by dropouts, as in the real runs. @default 0 */
+  dropoutRate: number;
+  /** A cell whose recovery is below this is ambiguous. @default 0.5 */
+  threshold: number;
+  /** Cells visited fewer times than this are not rated. @default 20 */
+  minVisits: number;
+  /** Metres added to the planar distance per level of difference (for the expected position error). @default 5 */
+  levelGapM: number;
+}
+
+export const DEFAULT_AMBIGUITY_OPTIONS: AmbiguityOptions = {
+  runs: 100,
+  steps: 400,
+  seed: 1,
+  dropoutRate: 0,
+  threshold: 0.5,
+  minVisits: 20,
+  levelGapM: 5,
+};
+
+/** Per cell (index = cell), estimated from simulated runs. Rates are NaN for cells never visited. */
+export interface AmbiguityEstimate {
+  options: AmbiguityOptions;
+  /** Simulated steps spent in each cell. */
+  visits: Float64Array;
+  /** Mean posterior probability of the true cell while the robot is in it: how often decoding recovers it. */
+  recovery: Float64Array;
+  /** Mean posterior probability of the true cell or a cell one link away. */
+  nearRecovery: Float64Array;
+  /** Mean posterior-expected distance (m) between the decoded and the true cell. */
+  errorM: Float64Array;
+  /** The other cell holding the most posterior probability while the robot is in this one; -1 if none. */
+  confusedWith: Int32Array;
+  /** Mean posterior probability of `confusedWith` while the robot is in this cell (counting steps where it held ≥ 1 %). */
+  confusedP: Float64Array;
+  /** 1 for cells visited at least `minVisits` times whose recovery is below `threshold`. */
+  ambiguous: Uint8Array;
+  /** Simulated steps in all. */
+  nSteps: number;
+}
+
+/** Posterior probabilities below this are not tallied as confusions (keeps the tally sparse). */
+const CONFUSION_FLOOR = 0.01;
+
+/**
+ * Localization ambiguity of every cell, by simulation: `runs` runs of `steps` steps are drawn from the
+ * model (start, transitions and emissions as fitted, readings dropped at `dropoutRate`), each run is
+ * decoded with the scaled forward-backward recursions (Rabiner 1989, eqs. 18–27 with section V.A
+ * scaling) into posterior marginals γ_t(j) = P(cell j at t | all readings), and for every step the
+ * posterior of the true cell is tallied. A cell's recovery is the mean of γ_t(true) over the steps spent
+ * in it: the probability that a decoder reading the posterior puts the robot in the right cell. Unlike
+ * counting argmax hits it needs no tie-breaking, so two mirror-image rooms score alike (about ½ each).
+ * Deterministic for a given model and options.
+ */
+export function estimateAmbiguity(model: HmmModel, options: Partial<AmbiguityOptions> = {}): AmbiguityEstimate {
+  const o: AmbiguityOptions = { ...DEFAULT_AMBIGUITY_OPTIONS, ...options };
+  const chain = chainFromModel(model);
+  const n = chain.nCells;
+  const T = Math.max(1, Math.floor(o.steps));
+  const s = model.structure;
+  const visits = new Float64Array(n);
+  const recoverySum = new Float64Array(n);
+  const nearSum = new Float64Array(n);
+  const errorSum = new Float64Array(n);
+  const confusion: Array<Map<number, number>> = Array.from({ length: n }, () => new Map());
+  // Planar coordinates and levels, for the expected distance.
+  const xs = Float64Array.from(model.cells, (c) => c.x);
+  const ys = Float64Array.from(model.cells, (c) => c.y);
+  const levels = Float64Array.from(model.cells, (c) => c.level);
+  // Neighbours one link away in either direction (CSR successors and CSC predecessors), plus the cell.
+  const near: Int32Array[] = [];
+  for (let i = 0; i < n; i++) {
+    const set = new Set<number>([i]);
+    for (let k = s.succPtr[i]; k < s.succPtr[i + 1]; k++) set.add(s.succIdx[k]);
+    for (let k = s.predPtr[i]; k < s.predPtr[i + 1]; k++) set.add(s.predIdx[k]);
+    near.push(Int32Array.from(set));
+  }
+  const alpha = new Float64Array(n * T);
+  const beta = new Float64Array(n * T);
+  const gamma = new Float64Array(n * T);
+  const scale = new Float64Array(T);
+  const rng = new SeededRandom(o.seed);
+  let nSteps = 0;
+  for (let r = 0; r < o.runs; r++) {
+    const { cells, obs } = sampleRun(model, T, rng, o.dropoutRate);
+    const logLik = forwardScaled(chain, obs, T, alpha, scale);
+    if (!Number.isFinite(logLik)) continue; // cannot happen for a run drawn from the model itself
+    backwardScaled(chain, obs, T, scale, beta);
+    posteriorMarginals(n, T, alpha, beta, gamma);
+    for (let t = 0; t < T; t++) {
+      const row = t * n;
+      const truth = cells[t];
+      visits[truth]++;
+      recoverySum[truth] += gamma[row + truth];
+      const nb = near[truth];
+      for (let k = 0; k < nb.length; k++) nearSum[truth] += gamma[row + nb[k]];
+      const tx = xs[truth];
+      const ty = ys[truth];
+      const tl = levels[truth];
+      let err = 0;
+      const tally = confusion[truth];
+      for (let j = 0; j < n; j++) {
+        const g = gamma[row + j];
+        if (g === 0) continue;
+        const dx = xs[j] - tx;
+        const dy = ys[j] - ty;
+        err += g * (Math.sqrt(dx * dx + dy * dy) + Math.abs(levels[j] - tl) * o.levelGapM);
+        if (g >= CONFUSION_FLOOR && j !== truth) tally.set(j, (tally.get(j) ?? 0) + g);
+      }
+      errorSum[truth] += err;
+    }
+    nSteps += T;
+  }
+  const recovery = new Float64Array(n);
+  const nearRecovery = new Float64Array(n);
+  const errorM = new Float64Array(n);
+  const confusedWith = new Int32Array(n).fill(-1);
+  const confusedP = new Float64Array(n);
+  const ambiguous = new Uint8Array(n);
+  for (let i = 0; i < n; i++) {
+    const v = visits[i];
+    recovery[i] = v > 0 ? recoverySum[i] / v : NaN;
+    nearRecovery[i] = v > 0 ? nearSum[i] / v : NaN;
+    errorM[i] = v > 0 ? errorSum[i] / v : NaN;
+    let best = -1;
+    let bestMass = 0;
+    for (const [j, mass] of confusion[i]) {
+      if (mass > bestMass || (mass === bestMass && j < best)) {
+        best = j;
+        bestMass = mass;
+      }
+    }
+    confusedWith[i] = best;
+    confusedP[i] = v > 0 ? bestMass / v : NaN;
+    ambiguous[i] = v >= o.minVisits && recovery[i] < o.threshold ? 1 : 0;
+  }
+  return { options: o, visits, recovery, nearRecovery, errorM, confusedWith, confusedP, ambiguous, nSteps };
+}

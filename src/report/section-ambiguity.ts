@@ -1,0 +1,108 @@
+import type { ReportData } from './report-data.js';
+import { svgFloorMap, type MapLayer } from './svg-floor-map.js';
+import { svgRampLegend } from './svg-ramp-legend.js';
+import { htmlSwatchLegend } from './html-swatch-legend.js';
+import { mapScale } from './map-scale.js';
+import { levelKey } from './level-key.js';
+import { htmlTable } from './html-table.js';
+import { escapeHtml } from './escape-html.js';
+import { htmlCard } from './html-card.js';
+import { formatNumber } from './format-number.js';
+import { NO_DATA_COLOUR, rampColour } from './palette.js';
+
+const MAX_LISTED = 15;
+
+/**
+ * Section 5: how often decoding recovers each cell, from runs simulated from the fitted model; maps with
+ * the ambiguous cells hatched, and the least recoverable cells with the cell they are mistaken for.
+ */
+export function sectionAmbiguity(d: ReportData): string {
+  const { model } = d.modelFile;
+  const a = d.ambiguity;
+  const o = a.options;
+  const ids = model.cells.map((c) => c.id);
+  const rated: number[] = [];
+  for (let i = 0; i < ids.length; i++) if (a.visits[i] >= o.minVisits) rated.push(i);
+  const nAmbiguous = rated.filter((i) => a.ambiguous[i]).length;
+  const median = (values: number[]): number => {
+    if (!values.length) return NaN;
+    const v = [...values].sort((x, y) => x - y);
+    return v.length % 2 ? v[(v.length - 1) / 2] : (v[v.length / 2 - 1] + v[v.length / 2]) / 2;
+  };
+  const scale = mapScale(d.geometry, 500, 22);
+  const maxError = Math.max(1e-9, ...rated.map((i) => a.errorM[i]));
+  const describe = (i: number): string => {
+    if (a.visits[i] < o.minVisits) return `${ids[i]}: only ${a.visits[i]} simulated visits, not rated`;
+    const partner = a.confusedWith[i] >= 0 ? `; most often mistaken for ${ids[a.confusedWith[i]]} (${formatNumber(a.confusedP[i], 'p')})` : '';
+    return `${ids[i]}: recovered ${formatNumber(a.recovery[i], 'pct')} of the time, within one link ${formatNumber(a.nearRecovery[i], 'pct')}, expected error ${formatNumber(a.errorM[i], 'g')} m${partner}${a.ambiguous[i] ? ' (ambiguous)' : ''}`;
+  };
+  const unratedCell = (i: number): boolean => a.visits[i] < o.minVisits;
+  const layers: MapLayer[] = [
+    {
+      key: 'recovery',
+      fill: (i) => (unratedCell(i) ? NO_DATA_COLOUR : rampColour(a.recovery[i])),
+      noData: unratedCell,
+      hatch: (i) => (a.ambiguous[i] ? 'dark' : false),
+      title: describe,
+    },
+    {
+      key: 'error',
+      fill: (i) => (unratedCell(i) ? NO_DATA_COLOUR : rampColour(1 - a.errorM[i] / maxError)),
+      noData: unratedCell,
+      title: describe,
+    },
+  ];
+  const maps = d.geometry.levels
+    .map((level) => {
+      const svg = svgFloorMap(model, d.geometry, level, layers, { pxPerM: scale, idPrefix: `amb-${levelKey(level.level)}`, label: `Localization ambiguity, level ${level.level}` });
+      return `<figure class="level-map"><figcaption>Level ${escapeHtml(String(level.level))}</figcaption>${svg}</figure>`;
+    })
+    .join('');
+  const unratedSwatch = { colour: NO_DATA_COLOUR, label: `fewer than ${o.minVisits} simulated visits`, mark: 'dashed' } as const;
+  const hatchSwatch = { colour: rampColour(0.2), label: `ambiguous (recovered less than ${formatNumber(o.threshold, 'pct')} of the time)`, mark: 'hatch' } as const;
+  const switcher =
+    '<div class="overlays">' +
+    '<input type="radio" name="amb-overlay" id="ov-recovery" class="ov-radio" checked><input type="radio" name="amb-overlay" id="ov-error" class="ov-radio">' +
+    '<div class="ov-tabs" role="group" aria-label="Ambiguity overlay"><label for="ov-recovery" class="ov-tab">Cell recovery</label><label for="ov-error" class="ov-tab">Expected position error</label></div>' +
+    '<div class="ov-legends">' +
+    `<div class="ov-legend lg-recovery"><div class="legend-row">${svgRampLegend({ title: 'recovery: probability of the true cell', domain: [0, 1], format: (v) => formatNumber(v, 'g'), idPrefix: 'lg-recovery' })}${htmlSwatchLegend([hatchSwatch, unratedSwatch])}</div></div>` +
+    `<div class="ov-legend lg-error"><div class="legend-row">${svgRampLegend({ title: 'expected distance from the true cell (m)', domain: [0, maxError], format: (v) => formatNumber(v, 'g'), reverse: true, idPrefix: 'lg-error' })}${htmlSwatchLegend([unratedSwatch])}</div></div>` +
+    '</div>' +
+    `<div class="maps">${maps}</div></div>`;
+  const worst = rated.sort((x, y) => a.recovery[x] - a.recovery[y] || x - y).slice(0, MAX_LISTED);
+  const table = htmlTable(
+    [
+      { header: 'cell', text: (i: number) => ids[i] },
+      { header: 'surveyed', text: (i) => model.cells[i].surface },
+      { header: 'simulated visits', text: (i) => formatNumber(a.visits[i], 'int'), numeric: true },
+      { header: 'recovered', text: (i) => formatNumber(a.recovery[i], 'pct'), numeric: true },
+      { header: 'within one link', text: (i) => formatNumber(a.nearRecovery[i], 'pct'), numeric: true },
+      { header: 'expected error (m)', text: (i) => formatNumber(a.errorM[i], 'g'), numeric: true },
+      { header: 'most often mistaken for', text: (i) => (a.confusedWith[i] >= 0 ? ids[a.confusedWith[i]] : '–') },
+      { header: 'P(that cell)', text: (i) => (a.confusedWith[i] >= 0 ? formatNumber(a.confusedP[i], 'p') : '–'), numeric: true },
+    ],
+    worst,
+  );
+  const recov = rated.map((i) => a.recovery[i]);
+  const near = rated.map((i) => a.nearRecovery[i]);
+  const err = rated.map((i) => a.errorM[i]);
+  const unrated = ids.length - rated.length;
+  const facts =
+    `<div class="cards compact">` +
+    htmlCard('ambiguous cells', `${nAmbiguous} of ${rated.length}`, `recovered less than ${formatNumber(o.threshold, 'pct')} of the time`) +
+    htmlCard('median recovery', formatNumber(median(recov), 'pct'), 'posterior probability of the true cell') +
+    htmlCard('median within one link', formatNumber(median(near), 'pct'), 'true cell or a linked neighbour') +
+    htmlCard('median expected error', `${formatNumber(median(err), 'g')} m`, `planar distance, +${o.levelGapM} m per level`) +
+    `</div>`;
+  return (
+    '<section id="ambiguity" aria-labelledby="ambiguity-h">' +
+    '<h2 id="ambiguity-h">Localization ambiguity</h2>' +
+    `<p class="lede">Where a planner should not trust cell-level positions. ${formatNumber(o.runs, 'int')} runs of ${formatNumber(o.steps, 'int')} steps were simulated from the fitted model (seed ${o.seed}${o.dropoutRate > 0 ? `, ${formatNumber(o.dropoutRate, 'pct')} dropouts as in the real runs` : ''}) and decoded; a cell's <em>recovery</em> is the mean posterior probability of the true cell while a robot was in it — how often decoding puts the robot in the right cell. Cells recovered less than ${formatNumber(o.threshold, 'pct')} of the time cannot be told apart from their neighbours or look-alikes and are hatched.${unrated ? ` ${unrated} cell${unrated === 1 ? ' was' : 's were'} visited fewer than ${o.minVisits} times and ${unrated === 1 ? 'is' : 'are'} not rated.` : ''}</p>` +
+    facts +
+    switcher +
+    `<h3>Least recoverable cells</h3>` +
+    table +
+    '</section>'
+  );
+}
+
