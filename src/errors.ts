@@ -34,3 +34,12 @@ export function quote(value: unknown): string {
   text = text.replace(/[\r\n]+/g, ' ');
   return text.length > 80 ? `${text.slice(0, 77)}...` : text;
 }
+
+/** A long operation stopped on request (SIGINT): exit 130, the shell's convention for Ctrl-C. */
+export class FitInterruptedError extends Error {
+  readonly exitCode = 130;
+  constructor(message: string) {
+    super(message);
+    this.name = 'FitInterruptedError';
+  }
+}

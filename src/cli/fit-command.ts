@@ -6,6 +6,8 @@ import { addKeyColumnOptions, addOutputOptions, keyColumnsFrom } from './common-
 import type { CliIo } from './cli-io.js';
 import { fitProgress } from './progress.js';
 import { formatTable } from './format-table.js';
+import { FitInterrupted } from '../fit/em-loop.js';
+import { FitInterruptedError } from '../errors.js';
 
 export function registerFit(program: Command, io: CliIo): void {
   const cmd = program
@@ -26,16 +28,30 @@ export function registerFit(program: Command, io: CliIo): void {
     .option('--tol <x>', 'relative change of log-likelihood per reading that counts as converged', '1e-6')
     .option('--workers <n>', 'worker threads (default: the number of cores)')
     .option('--no-final-pass', 'skip continuing the chosen restart on all runs')
-    .option('--from <model>', 'start from an existing model (warm start, for re-fits)');
+    .option('--from <model>', 'start from an existing model (warm start, for re-fits)')
+    .option('--checkpoint <dir>', 'save the fit after every iteration in this folder; the same command resumes it');
   addKeyColumnOptions(cmd);
   addOutputOptions(cmd);
   cmd.action(async (opts: Record<string, unknown>) => {
     const config = fitConfig(opts);
     const progress = fitProgress(io, Boolean(opts.quiet));
+    const stop = new AbortController();
+    const onSigint = (): void => stop.abort();
+    process.once('SIGINT', onSigint);
     let outcome;
     try {
-      outcome = await fitFromFiles(config, progress.onProgress);
+      outcome = await fitFromFiles({ ...config, signal: stop.signal }, progress.onProgress);
+    } catch (err) {
+      if (err instanceof FitInterrupted) {
+        throw new FitInterruptedError(
+          config.checkpoint
+            ? `fit interrupted; the checkpoint in ${config.checkpoint} is complete: run the same command again to resume`
+            : 'fit interrupted; nothing was written (use --checkpoint DIR to make long fits resumable)',
+        );
+      }
+      throw err;
     } finally {
+      process.removeListener('SIGINT', onSigint);
       progress.done();
     }
     for (const w of outcome.warnings) io.err(`warning: ${w}\n`);
@@ -56,6 +72,7 @@ export function fitConfig(opts: Record<string, unknown>): FitConfig {
     options,
     workers,
     keys: keyColumnsFrom(opts, 'fit'),
+    checkpoint: opts.checkpoint ? String(opts.checkpoint) : null,
   };
 }
 

@@ -15,6 +15,32 @@ export interface EmLoopOptions {
   tol: number;
 }
 
+/** Where a loop stands after an M-step: enough to continue it exactly (checkpoints). */
+export interface EmLoopState {
+  model: HmmModel;
+  iterations: number;
+  history: number[];
+}
+
+/** Checkpointing and interruption hooks of an EM loop. */
+export interface EmLoopHooks {
+  onIteration?: (iteration: number, objectivePerReading: number) => void;
+  /** Continue from this state instead of `start` (a resumed fit). */
+  resume?: EmLoopState;
+  /** Called after every M-step (e.g. to save a checkpoint) before the next E-step. */
+  afterStep?: (state: EmLoopState) => Promise<void>;
+  /** Checked after every M-step (and its checkpoint): when aborted, the loop stops with `FitInterrupted`. */
+  signal?: AbortSignal;
+}
+
+/** Thrown when a fit is stopped on request (SIGINT); its checkpoint, if any, is complete. */
+export class FitInterrupted extends Error {
+  constructor() {
+    super('the fit was interrupted');
+    this.name = 'FitInterrupted';
+  }
+}
+
 export interface EmLoopResult {
   model: HmmModel;
   iterations: number;
@@ -41,11 +67,12 @@ export async function runEm(
   start: HmmModel,
   blocks: number[][],
   options: EmLoopOptions,
-  onIteration?: (iteration: number, objectivePerReading: number) => void,
+  hooks: EmLoopHooks = {},
 ): Promise<EmLoopResult> {
-  let model = start;
-  let iterations = 0;
-  const history: number[] = [];
+  const { onIteration, resume, afterStep, signal } = hooks;
+  let model = resume ? resume.model : start;
+  let iterations = resume ? resume.iterations : 0;
+  const history: number[] = resume ? resume.history.slice() : [];
   for (;;) {
     const counts = reduceBlocks(model, packed, await engine.counts(model, blocks));
     const objective = counts.logLik + emissionLogPrior(model, options.prior, options.priorStrength);
@@ -68,5 +95,7 @@ export async function runEm(
     }
     model = maximizeModel(model, counts, { mode: options.mode, priorStrength: options.priorStrength, prior: options.prior });
     iterations++;
+    if (afterStep) await afterStep({ model, iterations, history: history.slice() });
+    if (signal?.aborted) throw new FitInterrupted();
   }
 }

@@ -8,7 +8,9 @@ import { packRuns, type PackedRuns } from './packed-runs.js';
 import { splitRuns } from './split-runs.js';
 import { restartSeeds } from './restart-seeds.js';
 import { startingPoint } from './starting-point.js';
-import { runEm, type EmLoopOptions } from './em-loop.js';
+import { runEm, type EmLoopOptions, type EmLoopState } from './em-loop.js';
+import type { CheckpointParams, CheckpointStore, FitCheckpoint } from './fit-checkpoint.js';
+import { InputError } from '../errors.js';
 import { impossibleRunError } from './impossible-run-error.js';
 import type { EStepEngine } from './e-step-engine.js';
 import { LocalEngine } from './local-engine.js';
@@ -71,11 +73,19 @@ export const DEFAULT_FIT_OPTIONS: FitOptions = {
  * model on all runs. E-steps run over fixed-size blocks of runs reduced in block order, so the result is
  * identical for any number of workers.
  */
+export interface FitControl {
+  /** Saves the fit's state after every iteration and resumes from it (`fit --checkpoint DIR`). */
+  checkpoint?: CheckpointStore;
+  /** Stops the fit after the current iteration (its checkpoint saved) with `FitInterrupted`. */
+  signal?: AbortSignal;
+}
+
 export async function fitModel(
   input: FitInput,
   options: FitOptions,
   workers: number,
   onProgress?: (p: FitProgress) => void,
+  control: FitControl = {},
 ): Promise<FitResult> {
   const o = options;
   const { floor, runs } = input;
@@ -95,11 +105,37 @@ export async function fitModel(
     const seeds = restartSeeds(o.seed, o.restarts);
     const restarts: LoopRecord[] = [];
     const models: HmmModel[] = [];
+    const store = control.checkpoint;
+    const key = checkpointKey(input, o);
+    const saved = store ? await store.load() : null;
+    if (saved && saved.key !== key) {
+      throw new InputError(
+        `${store!.where}: the checkpoint must have been made by the same fit (same floor, runs and options), got one from another fit; remove it or choose another --checkpoint folder`,
+      );
+    }
+    const done: FitCheckpoint['done'] = saved ? saved.done.slice() : [];
+    const save = (current: FitCheckpoint['current']): Promise<void> =>
+      store ? store.save({ format: 'underfoot-fit-checkpoint/1', key, done, current }) : Promise.resolve();
+    const loopHooks = (phase: 'restart' | 'final', k: number, start: HmmModel) => ({
+      onIteration: (iteration: number, objectivePerReading: number) =>
+        onProgress?.({ phase, restart: k, restarts: o.restarts, iteration, objectivePerReading }),
+      resume:
+        saved?.current && saved.current.phase === phase && saved.current.index === k
+          ? { model: withParams(start, saved.current.params), iterations: saved.current.iterations, history: saved.current.history }
+          : undefined,
+      afterStep: store
+        ? (state: EmLoopState) => save({ phase, index: k, iterations: state.iterations, history: state.history, params: paramsOf(state.model) })
+        : undefined,
+      signal: control.signal,
+    });
     for (let k = 0; k < o.restarts; k++) {
       const { model: start, dwell } = startingPoint(base, o.transitions, k, seeds[k]);
-      const res = await runEm(engine, packed, start, fitBlocks, loopOptions, (iteration, objectivePerReading) =>
-        onProgress?.({ phase: 'restart', restart: k, restarts: o.restarts, iteration, objectivePerReading }),
-      );
+      if (k < done.length) {
+        restarts.push(done[k].record);
+        models.push(withParams(start, done[k].params));
+        continue;
+      }
+      const res = await runEm(engine, packed, start, fitBlocks, loopOptions, loopHooks('restart', k, start));
       const held = heldBlocks.length ? await scoreBlocks(engine, packed, res.model, heldBlocks) : null;
       restarts.push({
         seed: seeds[k],
@@ -111,15 +147,15 @@ export async function fitModel(
         startDwell: dwell,
       });
       models.push(res.model);
+      done.push({ record: restarts[k], params: paramsOf(res.model) });
+      await save(null);
     }
     const byHeldOut = split.heldOut.length > 0;
     const selected = selectRestart(restarts, byHeldOut);
     let model = models[selected];
     let finalPass: LoopRecord | null = null;
     if (o.finalPass) {
-      const res = await runEm(engine, packed, model, allBlocks, loopOptions, (iteration, objectivePerReading) =>
-        onProgress?.({ phase: 'final', restart: selected, restarts: o.restarts, iteration, objectivePerReading }),
-      );
+      const res = await runEm(engine, packed, model, allBlocks, loopOptions, loopHooks('final', selected, model));
       model = res.model;
       finalPass = {
         seed: seeds[selected],
@@ -147,10 +183,24 @@ export async function fitModel(
       finalPass,
       cellReadings,
     };
+    if (store) await store.clear();
     return { model, record };
   } finally {
     await engine.close();
   }
+}
+
+/** A key that changes whenever the inputs or options of a fit change (checkpoints must match it). */
+function checkpointKey(input: FitInput, o: FitOptions): string {
+  return JSON.stringify({ floor: input.floorDigest, runs: input.runsDigests.map((r) => r.sha256), options: o, nRuns: input.runs.length });
+}
+
+function paramsOf(model: HmmModel): CheckpointParams {
+  return { start: Array.from(model.start), trans: Array.from(model.trans), emission: Array.from(model.emission) };
+}
+
+function withParams(model: HmmModel, p: CheckpointParams): HmmModel {
+  return { ...model, start: Float64Array.from(p.start), trans: Float64Array.from(p.trans), emission: Float64Array.from(p.emission) };
 }
 
 /** Expected readings per cell and surface over all runs under `model` (one more E-step). */

@@ -10,6 +10,7 @@ import type { FitOptions } from '../fit/fit-record.js';
 import type { KeyColumns } from './key-columns.js';
 import { loadRuns } from './load-runs.js';
 import { heldOutFlags } from './held-out-flags.js';
+import { CheckpointDir } from '../io/checkpoint-dir.js';
 
 export interface FitConfig {
   floor: string;
@@ -19,6 +20,10 @@ export interface FitConfig {
   options: FitOptions;
   workers: number;
   keys: KeyColumns;
+  /** Folder for the fit's checkpoint (`--checkpoint`), or null. */
+  checkpoint?: string | null;
+  /** Stops the fit after the current iteration (SIGINT). */
+  signal?: AbortSignal;
 }
 
 export interface FitOutcome {
@@ -52,6 +57,7 @@ export async function fitFromFiles(config: FitConfig, onProgress?: (p: FitProgre
     options,
     config.workers,
     onProgress,
+    { checkpoint: config.checkpoint ? new CheckpointDir(config.checkpoint) : undefined, signal: config.signal },
   );
   const file: ModelFile = { name: floor.name, model: result.model, fit: result.record };
   await writeFileAtomic(config.out, formatModel(file));
