@@ -58,6 +58,14 @@ export function buildRunsTable(input: KeyedRows, options: ReadRunsOptions): Runs
   if (nRows === 0) throw new InputError(`${source}: table must have at least one row of readings, got none`);
   const unknownAsDropout = (options.unknownReadings ?? 'error') === 'dropout';
   const codeOf = new Map<string, number>(options.surfaces.map((surface, i) => [surface, i]));
+  // Case-folded labels, only where folding keeps surfaces apart (never guess between "Tile" and "tile").
+  const codeOfFolded = new Map<string, number>();
+  const foldCounts = new Map<string, number>();
+  for (const surface of options.surfaces) foldCounts.set(surface.toLowerCase(), (foldCounts.get(surface.toLowerCase()) ?? 0) + 1);
+  options.surfaces.forEach((surface, i) => {
+    if (foldCounts.get(surface.toLowerCase()) === 1) codeOfFolded.set(surface.toLowerCase(), i);
+  });
+  const repaired = new Map<string, number>();
 
   // Pass 1, in file order so the first bad row is the one reported.
   const runIndex = new Map<string, number>();
@@ -100,7 +108,19 @@ export function buildRunsTable(input: KeyedRows, options: ReadRunsOptions): Runs
       continue;
     }
     const label = typeof rawReading === 'string' ? rawReading : String(rawReading);
-    const code = codeOf.get(label);
+    let code = codeOf.get(label);
+    if (code === undefined) {
+      // Documented repair: surrounding spaces and letter case are not part of a label ("Oak " = "oak");
+      // a label of spaces only is a dropout. Every repair is counted and reported as a warning.
+      const trimmed = label.trim();
+      if (trimmed === '') {
+        codeOfRow[row] = DROPOUT;
+        repaired.set(`${quote(label)} → no reading`, (repaired.get(`${quote(label)} → no reading`) ?? 0) + 1);
+        continue;
+      }
+      code = codeOf.get(trimmed) ?? codeOfFolded.get(trimmed.toLowerCase());
+      if (code !== undefined) repaired.set(`${quote(label)} → ${quote(options.surfaces[code])}`, (repaired.get(`${quote(label)} → ${quote(options.surfaces[code])}`) ?? 0) + 1);
+    }
     if (code !== undefined) {
       codeOfRow[row] = code;
     } else if (unknownAsDropout) {
@@ -165,6 +185,12 @@ export function buildRunsTable(input: KeyedRows, options: ReadRunsOptions): Runs
   }
 
   const warnings: string[] = [];
+  if (repaired.size > 0) {
+    let total = 0;
+    for (const n of repaired.values()) total += n;
+    const byCount = [...repaired].sort((a, b) => b[1] - a[1]).map(([what, n]) => `${what} (${n})`);
+    warnings.push(`${source}: ${total} ${total === 1 ? 'reading was' : 'readings were'} repaired (spaces or letter case): ${listForMessage(byCount, 6)}`);
+  }
   if (unknownLabels.size > 0) {
     let total = 0;
     for (const n of unknownLabels.values()) total += n;

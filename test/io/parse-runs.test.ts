@@ -212,8 +212,8 @@ describe('runsFromCsv(text, source, options) errors (one per case in the contrac
 
   it('runsFromCsv(text) shortens a long list of surfaces in the unknown-reading message', () => {
     const surfaces = ['s1', 's2', 's3', 's4', 's5', 's6', 's7', 's8', 's9', 's10'];
-    expect(csvError('run,step,reading\nr1,0,S1\n', { surfaces })).toBe(
-      `runs.csv: reading at run "r1" step 0 must be one of the floor's surfaces (s1, s2, s3, s4, s5, s6, s7, s8 and 2 more), got "S1"`,
+    expect(csvError('run,step,reading\nr1,0,s11\n', { surfaces })).toBe(
+      `runs.csv: reading at run "r1" step 0 must be one of the floor's surfaces (s1, s2, s3, s4, s5, s6, s7, s8 and 2 more), got "s11"`,
     );
   });
 
@@ -359,9 +359,9 @@ describe('runsFromArrow(bytes, source, options) errors', () => {
   });
 
   it('runsFromArrow(bytes) rejects a reading not in the surfaces', () => {
-    const bytes = arrowBytes({ run, step: vectorFromArray([0, 1], new Int32()), reading: vectorFromArray(['oak', 'Oak'], new Utf8()) });
+    const bytes = arrowBytes({ run, step: vectorFromArray([0, 1], new Int32()), reading: vectorFromArray(['oak', 'Wood'], new Utf8()) });
     expect(arrowError(bytes)).toBe(
-      `runs.arrow: reading at run "a" step 1 must be one of the floor's surfaces (oak, carpet, tile), got "Oak"`,
+      `runs.arrow: reading at run "a" step 1 must be one of the floor's surfaces (oak, carpet, tile), got "Wood"`,
     );
   });
 
@@ -385,5 +385,18 @@ describe('runsFromArrow(bytes, source, options) errors', () => {
     expect(arrowError(new Uint8Array(0))).toBe('runs.arrow: file must be Arrow IPC (file or stream), got an empty file');
     const text = new TextEncoder().encode('run,step,reading\nr1,0,oak\n');
     expect(arrowError(text)).toMatch(/^runs\.arrow: file must be Arrow IPC \(file or stream\), got unreadable data \(.+\)$/);
+  });
+});
+
+describe('reading repairs (documented: surrounding spaces and letter case)', () => {
+  it('runsFromCsv(text) maps " Oak " to "oak", spaces-only to a dropout, and reports every repair in one warning', () => {
+    const t = runsFromCsv('run,step,reading\nr1,0, Oak \nr1,1,TILE\nr1,2,"   "\nr1,3,oak\n', 'runs.csv', { surfaces: ['oak', 'carpet', 'tile'] });
+    expect(Array.from(t.runs[0].obs)).toEqual([0, 2, -1, 0]);
+    expect(t.warnings).toHaveLength(1);
+    expect(t.warnings[0]).toContain('3 readings were repaired');
+    expect(t.warnings[0]).toContain('" Oak " → "oak"');
+  });
+  it('runsFromCsv(text) does not guess when letter case alone tells two surfaces apart', () => {
+    expect(() => runsFromCsv('run,step,reading\nr1,0,TILE\n', 'runs.csv', { surfaces: ['tile', 'Tile'] })).toThrow(/got "TILE"/);
   });
 });
