@@ -27,6 +27,8 @@ export function summarizeRun(obs: Int32Array, dec: DecodedRun, th: DecodeThresho
   let surprising = 0;
   let sumP = 0;
   const impossible = dec.logLik === -Infinity;
+  let nReadings = 0;
+  for (let t = 0; t < T; t++) if (obs[t] >= 0) nReadings++;
   for (let t = 0; t < T; t++) {
     let f = 0;
     if (obs[t] < 0) {
@@ -47,11 +49,11 @@ export function summarizeRun(obs: Int32Array, dec: DecodedRun, th: DecodeThresho
     }
     flagsOut[t] = f;
   }
-  const nReadings = T - dropouts;
   return {
     steps: T,
     dropouts,
-    loglik: dec.logLik,
+    // A run of only dropouts has probability 1 exactly; the scaled sums give 1 ± rounding.
+    loglik: nReadings === 0 && !impossible ? 0 : dec.logLik,
     loglikPerReading: nReadings > 0 ? dec.logLik / nReadings : NaN,
     pathLogprob: dec.pathLogProb,
     meanPathP: impossible || T === 0 ? NaN : sumP / T,

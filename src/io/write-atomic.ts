@@ -1,5 +1,5 @@
 import { randomBytes } from 'node:crypto';
-import { mkdir, open, rename, rm, type FileHandle } from 'node:fs/promises';
+import { mkdir, open, readdir, rename, rm, type FileHandle } from 'node:fs/promises';
 import { basename, dirname, join } from 'node:path';
 import { InputError, WorkError } from '../errors.js';
 
@@ -21,6 +21,7 @@ export async function writeFileAtomic(path: string, data: FileData): Promise<voi
   } catch (err) {
     throw fileError(path, err, 'folder');
   }
+  await removeStaleTemporaries(folder, basename(path));
   const temp = join(folder, `${basename(path)}.tmp-${process.pid}-${randomBytes(6).toString('hex')}`);
   let handle: FileHandle | undefined;
   try {
@@ -37,6 +38,37 @@ export async function writeFileAtomic(path: string, data: FileData): Promise<voi
     throw isFileSystemError(err) ? fileError(path, err, 'file') : err;
   }
   await syncFolder(folder);
+}
+
+/**
+ * Removes temporary files left for the same target by a process that no longer runs (one killed while
+ * writing). Files of live processes, and anything not named `<base>.tmp-<pid>-<hex>`, are left alone.
+ */
+async function removeStaleTemporaries(folder: string, base: string): Promise<void> {
+  let names: string[];
+  try {
+    names = await readdir(folder);
+  } catch {
+    return;
+  }
+  const prefix = `${base}.tmp-`;
+  for (const name of names) {
+    if (!name.startsWith(prefix)) continue;
+    const m = /^(\d+)-[0-9a-f]+$/.exec(name.slice(prefix.length));
+    if (!m) continue;
+    const pid = Number(m[1]);
+    if (pid === process.pid || isRunning(pid)) continue;
+    await rm(join(folder, name), { force: true }).catch(() => undefined);
+  }
+}
+
+function isRunning(pid: number): boolean {
+  try {
+    process.kill(pid, 0);
+    return true;
+  } catch (err) {
+    return (err as NodeJS.ErrnoException).code === 'EPERM';
+  }
 }
 
 /** Writes the whole chunk at the current position (a single write may take only part of it). */

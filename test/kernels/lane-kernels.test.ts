@@ -201,10 +201,8 @@ describe('lane kernels', () => {
 
   it('forwardLanes reports −Infinity for a lane whose readings are impossible and leaves the others intact', () => {
     const n = 3;
-    // Cell 2 alone can show reading 1; it can be reached only from cell 1, which cannot start.
-    const m: HmmModel = {
-      ...randomModel(3, { nCells: n, nReadings: 2 }),
-    };
+    // Only cell 0 can start, and it never shows reading 1: a run that begins with reading 1 is impossible.
+    const m = randomModel(3, { nCells: n, nReadings: 2 });
     const emission = Float64Array.from([1, 0, 1, 0, 0, 1]);
     const start = Float64Array.from([1, 0, 0]);
     const c = chainFromModel({ ...m, emission, start });
