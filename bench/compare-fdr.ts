@@ -72,7 +72,7 @@ function trial(seed: number, k: number) {
   let refit = calibrated;
   for (let it = 0; it < iterations; it++) refit = emIteration(refit, newRuns, { mode: 'fixed', priorStrength, prior: calibrated.emission }).model;
   const newCounts = emIteration(refit, newRuns, { mode: 'fixed', priorStrength: 0 }).counts.emitT;
-  const res = compareCells(calibrated, oldCounts, newCounts, { fdr: 0.05, minReadings: 100 });
+  const res = process.env.PROFILE ? profileCompare(calibrated, refit, newRuns, newCounts, Number(process.env.PROFILE)) : compareCells(calibrated, oldCounts, newCounts, { fdr: 0.05, minReadings: 100 });
   const byId = new Map(floor.cells.map((c, i) => [c.id, i]));
   let discoveries = 0, falseDiscoveries = 0, adjacentFalse = 0, found = 0, testable = 0;
   for (const row of res.changes) {
@@ -90,6 +90,43 @@ function trial(seed: number, k: number) {
     }
   }
   return { discoveries, falseDiscoveries, adjacentFalse, found, testable, inflation: res.inflation };
+}
+
+import { chainFromModel } from '../src/model/chain-from-model.js';
+import { forwardScore } from '../src/kernels/forward-score.js';
+import { chiSquareSurvival } from '../src/compare/chi-square-survival.js';
+import { benjaminiHochberg } from '../src/compare/benjamini-hochberg.js';
+function logLik(model: HmmModel, runs: Array<{ obs: Int32Array }>): number {
+  const c = chainFromModel(model);
+  const w = new Float64Array(2 * n);
+  return runs.reduce((s, r) => s + forwardScore(c, r.obs, r.obs.length, w), 0);
+}
+/** Profile likelihood ratio per cell: row i held at the old row, other rows re-optimised for `k` EM steps from the re-fit. */
+function profileCompare(old: HmmModel, refit: HmmModel, runs: Array<{ id: string; obs: Int32Array }>, newCounts: Float64Array, k: number) {
+  const base = logLik(refit, runs);
+  const tested: number[] = [];
+  const p: number[] = [];
+  const changes = floor.cells.map((c, i) => {
+    let t = 0;
+    for (let r = 0; r < m; r++) t += newCounts[r * n + i];
+    return { cell: c.id, expectedReadings: t, verdict: 'too-few-readings' as string };
+  });
+  for (let i = 0; i < n; i++) {
+    if (changes[i].expectedReadings < 100) continue;
+    let model: HmmModel = { ...refit, emission: refit.emission.slice() };
+    for (let r = 0; r < m; r++) model.emission[i * m + r] = old.emission[i * m + r];
+    for (let it = 0; it < k; it++) {
+      const next = emIteration(model, runs, { mode: 'fixed', priorStrength: 0 }).model;
+      for (let r = 0; r < m; r++) next.emission[i * m + r] = old.emission[i * m + r];
+      model = next;
+    }
+    const lr = Math.max(0, 2 * (base - logLik(model, runs)));
+    tested.push(i);
+    p.push(chiSquareSurvival(lr, m - 1));
+  }
+  const q = benjaminiHochberg(p);
+  tested.forEach((i, t) => (changes[i].verdict = q[t] <= 0.05 ? 'changed' : 'unchanged'));
+  return { changes, inflation: 1 };
 }
 
 const seeds = Array.from({ length: nSeeds }, (_, s) => 101 + 7 * s);

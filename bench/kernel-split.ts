@@ -3,7 +3,7 @@
  *
  *     npm run build && node dist/bench/kernel-split.js [runs] [repeats]
  *
- * Each kernel runs `repeats` times (default 7) over the first `runs` runs (default 40, a multiple of 4);
+ * Each kernel runs `repeats` times (default 7) over the first `runs` runs (default 40, a multiple of 8);
  * the median and the fastest pass are printed in ns per step-link (total steps × transition nonzeros).
  * The old one-run kernels (CSR/CSC loops, normalise every step) are timed beside the lane kernels.
  */
@@ -17,8 +17,6 @@ import { backwardCountsSegment } from '../src/kernels/backward-counts-segment.js
 import { forwardLanes } from '../src/kernels/forward-lanes.js';
 import { backwardCountsLanes } from '../src/kernels/backward-counts-lanes.js';
 import { backwardTotalsLanes } from '../src/kernels/backward-totals-lanes.js';
-import { forwardLanesUniform } from '../src/kernels/forward-lanes-uniform.js';
-import { backwardTotalsLanesUniform } from '../src/kernels/backward-totals-lanes-uniform.js';
 import { fillLaneGroup } from '../src/kernels/fill-lane-group.js';
 import { LANES, type LaneGroup } from '../src/kernels/sparse-chain.js';
 
@@ -47,7 +45,6 @@ const wSpare = new Float64Array(n * LANES);
 const links = new Float64Array(nLinks);
 const dwell = new Float64Array(n);
 const logs = new Float64Array(LANES);
-const spread = new Float64Array(2 * n * LANES);
 const groups: LaneGroup[] = [];
 for (let r = 0; r < runs.length; r += LANES) groups.push(fillLaneGroup(runs.slice(r, r + LANES).map((x) => x.obs), n, m));
 const stepLinks = runs.reduce((s, r) => s + r.obs.length, 0) * chain.nnz;
@@ -81,14 +78,6 @@ const rows: Array<[string, () => void]> = [
       forwardLanes(chain, g, 0, T, table, scale, logs);
       w.fill(0);
       backwardTotalsLanes(chain, g, 0, T, table, scale, w, wSpare, emit, dwell, links, start);
-    }
-  }],
-  ['forwardLanesUniform', () => { for (const g of groups) forwardLanesUniform(chain, g, 0, T, table, scale, spread, logs); }],
-  ['forwardLanesUniform + backwardTotalsLanesUniform', () => {
-    for (const g of groups) {
-      forwardLanesUniform(chain, g, 0, T, table, scale, spread, logs);
-      w.fill(0);
-      backwardTotalsLanesUniform(chain, g, 0, T, table, scale, w, wSpare, emit, dwell, links, start);
     }
   }],
 ];

@@ -1,10 +1,8 @@
 import { LANES, type SparseChain } from '../kernels/sparse-chain.js';
 import { fillLaneGroup } from '../kernels/fill-lane-group.js';
 import { forwardLanes } from '../kernels/forward-lanes.js';
-import { forwardLanesUniform } from '../kernels/forward-lanes-uniform.js';
 import { backwardCountsLanes } from '../kernels/backward-counts-lanes.js';
 import { backwardTotalsLanes } from '../kernels/backward-totals-lanes.js';
-import { backwardTotalsLanesUniform } from '../kernels/backward-totals-lanes-uniform.js';
 import { segmentSteps } from '../kernels/segment-steps.js';
 import type { ExpectedCountsTable } from '../model/expected-counts-table.js';
 import type { EStepWorkspace } from './e-step-workspace.js';
@@ -38,11 +36,6 @@ export function accumulateLanes(
   ws.ensure(n, chain.nReadings, chain.outPtr[n], LANES, T, segment, nSegments);
   const { table, scale, checkpoints } = ws;
   logOut.fill(0, 0, LANES);
-  // Chains in the tied family (every cell's links equally likely) take the kernels that multiply by the
-  // link probability once per cell; the forward one gives the very same numbers.
-  const uniform = chain.uniformLinks;
-  const forward = (a: number, b: number, logs: Float64Array): void =>
-    uniform ? forwardLanesUniform(chain, group, a, b, table, scale, ws.spread, logs) : forwardLanes(chain, group, a, b, table, scale, logs);
 
   for (let g = 0; g < nSegments; g++) {
     const a = g * segment;
@@ -51,7 +44,7 @@ export function accumulateLanes(
       table.copyWithin(0, segment * row, (segment + 1) * row);
       checkpoints.set(table.subarray(0, row), g * row);
     }
-    forward(a, b, logOut);
+    forwardLanes(chain, group, a, b, table, scale, logOut);
   }
   for (let k = 0; k < runs.length; k++) if (logOut[k] === -Infinity) return false;
 
@@ -61,12 +54,10 @@ export function accumulateLanes(
     const b = Math.min(T, a + segment);
     if (g < nSegments - 1) {
       if (g > 0) table.set(checkpoints.subarray(g * row, (g + 1) * row), 0);
-      forward(a, b, ws.logs);
+      forwardLanes(chain, group, a, b, table, scale, ws.logs);
     }
     if (perLink) {
       backwardCountsLanes(chain, group, a, b, table, scale, ws.w, ws.wSpare, ws.emitCount, ws.linkCount, ws.dwellCount, counts.start);
-    } else if (uniform) {
-      backwardTotalsLanesUniform(chain, group, a, b, table, scale, ws.w, ws.wSpare, ws.emitCount, ws.dwellCount, ws.lastGamma, counts.start);
     } else {
       backwardTotalsLanes(chain, group, a, b, table, scale, ws.w, ws.wSpare, ws.emitCount, ws.dwellCount, ws.lastGamma, counts.start);
     }

@@ -21,8 +21,6 @@ export class EStepWorkspace {
   scale = new Float64Array(0);
   /** Forward vectors at the entry of every segment (checkpointed runs only): segments × cells × lanes. */
   checkpoints = new Float64Array(0);
-  /** Scratch of the uniform-links forward kernel: 2 × cells × lanes. */
-  spread = new Float64Array(0);
   /** w vectors of the backward pass and their ping-pong partner: cells × lanes each. */
   w = new Float64Array(0);
   wSpare = new Float64Array(0);
@@ -49,7 +47,6 @@ export class EStepWorkspace {
     if (this.w.length < row) {
       this.w = new Float64Array(row);
       this.wSpare = new Float64Array(row);
-      this.spread = new Float64Array(2 * row);
     }
     if (this.emitCount.length < (nReadings + 1) * nCells) this.emitCount = new Float64Array((nReadings + 1) * nCells);
     if (this.linkCount.length < nLinks) this.linkCount = new Float64Array(nLinks);

@@ -1,11 +1,15 @@
 import { LANES } from '../kernels/sparse-chain.js';
 
+/** Fewest runs worth a lane pass (measured: one lane pass ≈ three one-run passes). */
+export const MIN_LANE_RUNS = 3;
+
 /**
  * How a block's runs are laid into lane groups: positions in the block (0 … runs.length-1), longest
  * run first (ties in block order), taken `LANES` at a time as long as a run is at least half as long as
- * its group's first — so the lanes of a group waste at most half their steps on padding. A group of one
- * goes through the single-run kernels. Depends only on the block's run lengths, so every worker count
- * gives the same groups.
+ * its group's first — so the lanes of a group waste at most half their steps on padding. A group of
+ * fewer than `MIN_LANE_RUNS` runs is split into groups of one, which go through the single-run kernels
+ * (a lane pass costs about as much as three one-run passes, whatever the number of lanes in use).
+ * Depends only on the block's run lengths, so every worker count gives the same groups.
  */
 export function laneGroups(runs: ArrayLike<number>, offsets: Int32Array): number[][] {
   const length = (b: number): number => offsets[runs[b] + 1] - offsets[runs[b]];
@@ -15,7 +19,8 @@ export function laneGroups(runs: ArrayLike<number>, offsets: Int32Array): number
     const group = [order[k++]];
     const first = length(group[0]);
     while (k < order.length && group.length < LANES && 2 * length(order[k]) >= first) group.push(order[k++]);
-    groups.push(group);
+    if (group.length >= MIN_LANE_RUNS) groups.push(group);
+    else for (const b of group) groups.push([b]);
   }
   return groups;
 }

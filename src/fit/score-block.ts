@@ -1,7 +1,6 @@
 import { LANES, type SparseChain } from '../kernels/sparse-chain.js';
 import { fillLaneGroup } from '../kernels/fill-lane-group.js';
 import { forwardLanes } from '../kernels/forward-lanes.js';
-import { forwardLanesUniform } from '../kernels/forward-lanes-uniform.js';
 import { forwardSegment } from '../kernels/forward-segment.js';
 import type { EStepWorkspace } from './e-step-workspace.js';
 import type { PackedRuns } from './packed-runs.js';
@@ -72,7 +71,6 @@ function scoreLanes(chain: SparseChain, runs: Int32Array[], ws: EStepWorkspace, 
   for (let a = 0; a < T; a += window) {
     const b = Math.min(T, a + window);
     if (a > 0) ws.table.copyWithin(0, window * row, (window + 1) * row);
-    if (chain.uniformLinks) forwardLanesUniform(chain, group, a, b, ws.table, ws.scale, ws.spread, logOut);
-    else forwardLanes(chain, group, a, b, ws.table, ws.scale, logOut);
+    forwardLanes(chain, group, a, b, ws.table, ws.scale, logOut);
   }
 }

@@ -9,7 +9,7 @@ import type { LaneGroup, SparseChain } from './sparse-chain.js';
  * dropouts — less γ at each run's last step, which this pass ADDS into `lastGamma[i]`.
  *
  * Loop tricks as in `backwardCountsLanes`; the link loop is left with the backward product alone (one
- * load and one multiply-add per lane-link, the probability loaded once for four lanes). No allocation.
+ * load and one multiply-add per lane-link, the probability loaded once for eight lanes). No allocation.
  */
 export function backwardTotalsLanes(
   chain: SparseChain,
@@ -28,73 +28,118 @@ export function backwardTotalsLanes(
   const { nCells: n, dwell, outPtr, outIdx, outProb, emitT } = chain;
   const rows = group.rows;
   const lens = group.laneSteps;
-  const stride = 4 * n;
+  const stride = 8 * n;
   let next = w; // ŵ_{t+1}
   let out = wSpare; // ŵ_t
   for (let t = t1 - 1; t >= t0; t--) {
     const row = (t - t0 + 1) * stride;
-    const rb = t * 4;
-    const e0 = rows[rb];
+    const rb = t * 8;
+    const e0 = rows[rb + 0];
     const e1 = rows[rb + 1];
     const e2 = rows[rb + 2];
     const e3 = rows[rb + 3];
-    const z0 = t === lens[0] - 1 ? scale[rb] : 0;
+    const e4 = rows[rb + 4];
+    const e5 = rows[rb + 5];
+    const e6 = rows[rb + 6];
+    const e7 = rows[rb + 7];
+    // c_t at each lane's last step (the end term); c_{t-1} for ŵ_t (1 at t = 0, where ŵ_0 is not used).
+    const z0 = t === lens[0] - 1 ? scale[rb + 0] : 0;
     const z1 = t === lens[1] - 1 ? scale[rb + 1] : 0;
     const z2 = t === lens[2] - 1 ? scale[rb + 2] : 0;
     const z3 = t === lens[3] - 1 ? scale[rb + 3] : 0;
-    const p0 = t > 0 ? scale[rb - 4] : 1;
-    const p1 = t > 0 ? scale[rb - 3] : 1;
-    const p2 = t > 0 ? scale[rb - 2] : 1;
-    const p3 = t > 0 ? scale[rb - 1] : 1;
+    const z4 = t === lens[4] - 1 ? scale[rb + 4] : 0;
+    const z5 = t === lens[5] - 1 ? scale[rb + 5] : 0;
+    const z6 = t === lens[6] - 1 ? scale[rb + 6] : 0;
+    const z7 = t === lens[7] - 1 ? scale[rb + 7] : 0;
+    const p0 = t > 0 ? scale[rb - 8] : 1;
+    const p1 = t > 0 ? scale[rb - 7] : 1;
+    const p2 = t > 0 ? scale[rb - 6] : 1;
+    const p3 = t > 0 ? scale[rb - 5] : 1;
+    const p4 = t > 0 ? scale[rb - 4] : 1;
+    const p5 = t > 0 ? scale[rb - 3] : 1;
+    const p6 = t > 0 ? scale[rb - 2] : 1;
+    const p7 = t > 0 ? scale[rb - 1] : 1;
     for (let i = 0; i < n; i++) {
-      const x = row + 4 * i;
-      const u0 = table[x];
+      const x = row + 8 * i;
+      const u0 = table[x + 0];
       const u1 = table[x + 1];
       const u2 = table[x + 2];
       const u3 = table[x + 3];
-      const y = 4 * i;
+      const u4 = table[x + 4];
+      const u5 = table[x + 5];
+      const u6 = table[x + 6];
+      const u7 = table[x + 7];
+      const y = 8 * i;
       const dw = dwell[i];
-      const d0 = dw * next[y];
+      const d0 = dw * next[y + 0];
       const d1 = dw * next[y + 1];
       const d2 = dw * next[y + 2];
       const d3 = dw * next[y + 3];
-      dwellCount[i] += u0 * d0 + u1 * d1 + u2 * d2 + u3 * d3;
+      const d4 = dw * next[y + 4];
+      const d5 = dw * next[y + 5];
+      const d6 = dw * next[y + 6];
+      const d7 = dw * next[y + 7];
+      dwellCount[i] += u0 * d0 + u1 * d1 + u2 * d2 + u3 * d3 + u4 * d4 + u5 * d5 + u6 * d6 + u7 * d7;
       let l0 = 0;
       let l1 = 0;
       let l2 = 0;
       let l3 = 0;
+      let l4 = 0;
+      let l5 = 0;
+      let l6 = 0;
+      let l7 = 0;
       const end = outPtr[i + 1];
       for (let q = outPtr[i]; q < end; q++) {
-        const v = 4 * outIdx[q];
+        const v = (outIdx[q] << 3) | 0;
         const pr = outProb[q];
-        l0 += pr * next[v];
-        l1 += pr * next[v + 1];
-        l2 += pr * next[v + 2];
-        l3 += pr * next[v + 3];
+        l0 += pr * next[(v + 0) | 0];
+        l1 += pr * next[(v + 1) | 0];
+        l2 += pr * next[(v + 2) | 0];
+        l3 += pr * next[(v + 3) | 0];
+        l4 += pr * next[(v + 4) | 0];
+        l5 += pr * next[(v + 5) | 0];
+        l6 += pr * next[(v + 6) | 0];
+        l7 += pr * next[(v + 7) | 0];
       }
       const b0 = d0 + l0 + z0;
       const b1 = d1 + l1 + z1;
       const b2 = d2 + l2 + z2;
       const b3 = d3 + l3 + z3;
+      const b4 = d4 + l4 + z4;
+      const b5 = d5 + l5 + z5;
+      const b6 = d6 + l6 + z6;
+      const b7 = d7 + l7 + z7;
       const g0 = u0 * b0;
       const g1 = u1 * b1;
       const g2 = u2 * b2;
       const g3 = u3 * b3;
+      const g4 = u4 * b4;
+      const g5 = u5 * b5;
+      const g6 = u6 * b6;
+      const g7 = u7 * b7;
       emitCount[e0 + i] += g0;
       emitCount[e1 + i] += g1;
       emitCount[e2 + i] += g2;
       emitCount[e3 + i] += g3;
-      if (t === 0) startCount[i] += g0 + g1 + g2 + g3;
-      out[y] = p0 * emitT[e0 + i] * b0;
+      emitCount[e4 + i] += g4;
+      emitCount[e5 + i] += g5;
+      emitCount[e6 + i] += g6;
+      emitCount[e7 + i] += g7;
+      if (t === 0) startCount[i] += g0 + g1 + g2 + g3 + g4 + g5 + g6 + g7;
+      out[y + 0] = p0 * emitT[e0 + i] * b0;
       out[y + 1] = p1 * emitT[e1 + i] * b1;
       out[y + 2] = p2 * emitT[e2 + i] * b2;
       out[y + 3] = p3 * emitT[e3 + i] * b3;
+      out[y + 4] = p4 * emitT[e4 + i] * b4;
+      out[y + 5] = p5 * emitT[e5 + i] * b5;
+      out[y + 6] = p6 * emitT[e6 + i] * b6;
+      out[y + 7] = p7 * emitT[e7 + i] * b7;
     }
     // γ at a lane's last step is u_t c_t (β̂ = 1): kept to take it out of the transition totals.
-    if (z0 !== 0 || z1 !== 0 || z2 !== 0 || z3 !== 0) {
+    if (z0 !== 0 || z1 !== 0 || z2 !== 0 || z3 !== 0 || z4 !== 0 || z5 !== 0 || z6 !== 0 || z7 !== 0) {
       for (let i = 0; i < n; i++) {
-        const x = row + 4 * i;
-        lastGamma[i] += table[x] * z0 + table[x + 1] * z1 + table[x + 2] * z2 + table[x + 3] * z3;
+        const x = row + 8 * i;
+        lastGamma[i] += table[x + 0] * z0 + table[x + 1] * z1 + table[x + 2] * z2 + table[x + 3] * z3 + table[x + 4] * z4 + table[x + 5] * z5 + table[x + 6] * z6 + table[x + 7] * z7;
       }
     }
     const swap = next;

@@ -17,10 +17,7 @@
  *   kernels: `dwell[i]` = a_ii; links into j in CSC order `inIdx/inProb[inPtr[j] … inPtr[j+1]-1]`; links
  *   out of i in CSR order `outIdx/outProb[outPtr[i] … outPtr[i+1]-1]`, `outPos[q]` the CSR position
  *   (into `succProb`, and into per-nonzero count tables) of link entry q, `dwellPos[i]` that of the
- *   dwell (−1 when the structure has no dwell entry for i; then `dwell[i]` is 0);
- * - when every cell's links share one probability (the equal split of the `tied` family, and of every
- *   model built from a floor), `uniformLinks` is true and `linkProb[i]` is that probability (0 for a
- *   cell without links), so a kernel may multiply once per cell instead of once per link.
+ *   dwell (−1 when the structure has no dwell entry for i; then `dwell[i]` is 0).
  */
 export interface SparseChain {
   nCells: number;
@@ -52,14 +49,10 @@ export interface SparseChain {
   outProb: Float64Array;
   /** CSR position of each `out` entry. */
   outPos: Int32Array;
-  /** True when all links out of each cell have the same probability, `linkProb[i]`. */
-  uniformLinks: boolean;
-  /** The probability of each of cell i's links when `uniformLinks` (0 without links); NaN for a cell whose links differ. */
-  linkProb: Float64Array;
 }
 
 /** Runs processed side by side by the lane kernels (`forwardLanes`, `backwardCountsLanes`, …). */
-export const LANES = 4;
+export const LANES = 8;
 
 /**
  * Up to `LANES` runs laid side by side so that one pass over the transitions serves all of them: every

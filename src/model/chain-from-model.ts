@@ -44,14 +44,6 @@ export function chainFromModel(model: Pick<HmmModel, 'surfaces' | 'structure' | 
     }
     outPtr[i + 1] = q;
   }
-  const linkProb = new Float64Array(n);
-  let uniformLinks = true;
-  for (let i = 0; i < n; i++) {
-    const first = outPtr[i] < outPtr[i + 1] ? outProb[outPtr[i]] : 0;
-    for (let k = outPtr[i] + 1; k < outPtr[i + 1]; k++) if (outProb[k] !== first) linkProb[i] = NaN;
-    if (Number.isNaN(linkProb[i])) uniformLinks = false;
-    else linkProb[i] = first;
-  }
   const inPtr = new Int32Array(n + 1);
   const inIdx = new Int32Array(nLinks);
   const inProb = new Float64Array(nLinks);
@@ -87,7 +79,5 @@ export function chainFromModel(model: Pick<HmmModel, 'surfaces' | 'structure' | 
     outIdx,
     outProb,
     outPos,
-    uniformLinks,
-    linkProb,
   };
 }

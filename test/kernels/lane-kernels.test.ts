@@ -2,20 +2,17 @@ import { describe, it, expect } from 'vitest';
 import { randomModel } from '../helpers/random-model.js';
 import { expectClose } from '../helpers/close.js';
 import { chainFromModel } from '../../src/model/chain-from-model.js';
-import { equalSplitTransitions } from '../../src/model/equal-split-transitions.js';
 import { sampleRun } from '../../src/model/sample-run.js';
 import { SeededRandom } from '../../src/model/seeded-random.js';
 import type { HmmModel } from '../../src/model/hmm-model.js';
 import { LANES, type SparseChain } from '../../src/kernels/sparse-chain.js';
 import { fillLaneGroup } from '../../src/kernels/fill-lane-group.js';
 import { forwardLanes } from '../../src/kernels/forward-lanes.js';
-import { forwardLanesUniform } from '../../src/kernels/forward-lanes-uniform.js';
 import { forwardSegment } from '../../src/kernels/forward-segment.js';
 import { forwardScaled } from '../../src/kernels/forward-scaled.js';
 import { expectedCounts } from '../../src/kernels/expected-counts.js';
 import { backwardCountsLanes } from '../../src/kernels/backward-counts-lanes.js';
 import { backwardTotalsLanes } from '../../src/kernels/backward-totals-lanes.js';
-import { backwardTotalsLanesUniform } from '../../src/kernels/backward-totals-lanes-uniform.js';
 import { backwardCountsSegment } from '../../src/kernels/backward-counts-segment.js';
 
 // Oracle: the plain one-run kernels `forwardScaled` and `expectedCounts` (Rabiner 1989, "A tutorial on
@@ -23,7 +20,7 @@ import { backwardCountsSegment } from '../../src/kernels/backward-counts-segment
 // pomegranate fixtures and brute-force enumeration check in test/reference. Runs are sampled from
 // invented random models; lengths differ so that the lanes are ragged.
 
-const LENGTHS = [57, 40, 57, 13];
+const LENGTHS = [57, 40, 57, 13, 29, 57, 44, 56];
 
 function runsOf(model: HmmModel, seed: number, lengths: number[]): Int32Array[] {
   const rng = new SeededRandom(seed);
@@ -49,7 +46,7 @@ function reference(chain: SparseChain, runs: Int32Array[]) {
 }
 
 /** Runs the lane kernels over a group in segments of `segment` steps, checkpointing as the E-step does. */
-function laneCounts(chain: SparseChain, runs: Int32Array[], segment: number, backward: 'links' | 'totals' | 'uniform') {
+function laneCounts(chain: SparseChain, runs: Int32Array[], segment: number, backward: 'links' | 'totals') {
   const n = chain.nCells;
   const m = chain.nReadings;
   const row = LANES * n;
@@ -59,10 +56,8 @@ function laneCounts(chain: SparseChain, runs: Int32Array[], segment: number, bac
   const table = new Float64Array((segment + 1) * row);
   const scale = new Float64Array(T * LANES);
   const checkpoints = new Float64Array(nSeg * row);
-  const spread = new Float64Array(2 * row);
   const logs = new Float64Array(LANES);
-  const forward = (a: number, b: number, out: Float64Array): void =>
-    backward === 'uniform' ? forwardLanesUniform(chain, group, a, b, table, scale, spread, out) : forwardLanes(chain, group, a, b, table, scale, out);
+  const forward = (a: number, b: number, out: Float64Array): void => forwardLanes(chain, group, a, b, table, scale, out);
   for (let g = 0; g < nSeg; g++) {
     if (g > 0) {
       table.copyWithin(0, segment * row, (segment + 1) * row);
@@ -85,8 +80,7 @@ function laneCounts(chain: SparseChain, runs: Int32Array[], segment: number, bac
       forward(a, b, new Float64Array(LANES));
     }
     if (backward === 'links') backwardCountsLanes(chain, group, a, b, table, scale, w, wSpare, emit, links, dwell, start);
-    else if (backward === 'totals') backwardTotalsLanes(chain, group, a, b, table, scale, w, wSpare, emit, dwell, lastGamma, start);
-    else backwardTotalsLanesUniform(chain, group, a, b, table, scale, w, wSpare, emit, dwell, lastGamma, start);
+    else backwardTotalsLanes(chain, group, a, b, table, scale, w, wSpare, emit, dwell, lastGamma, start);
   }
   return { logs, emit, links, dwell, lastGamma, start };
 }
@@ -114,10 +108,10 @@ describe('lane kernels', () => {
   });
 
   it('a group of fewer runs than lanes leaves the unused lanes out of every sum', () => {
-    const two = runs.slice(0, 2);
-    const ref = reference(chain, two);
-    const got = laneCounts(chain, two, 1000, 'links');
-    expect(Array.from(got.logs.subarray(2))).toEqual([0, 0]);
+    const three = runs.slice(0, 3);
+    const ref = reference(chain, three);
+    const got = laneCounts(chain, three, 1000, 'links');
+    expect(Array.from(got.logs.subarray(3))).toEqual(new Array(LANES - 3).fill(0));
     ref.start.forEach((v, i) => expectClose(got.start[i], v, { abs: 1e-12, rel: 1e-12 }, `start ${i}`));
     for (let x = 0; x < ref.emit.length; x++) expectClose(got.emit[x], ref.emit[x], { abs: 1e-12, rel: 1e-12 }, `emit ${x}`);
   });
@@ -157,27 +151,6 @@ describe('lane kernels', () => {
       for (let q = chain.outPtr[i]; q < chain.outPtr[i + 1]; q++) rowLinks += links.links[q];
       expectClose(gamma - totals.lastGamma[i], links.dwell[i] + rowLinks, { abs: 1e-12, rel: 1e-12 }, `cell ${i}`);
     }
-  });
-
-  it('uniform-link kernels on a tied-family chain: forward bit-identical to forwardLanes, totals within 1e-12', () => {
-    const tied: HmmModel = { ...model, trans: equalSplitTransitions(model.structure, 0.55) };
-    const c = chainFromModel(tied);
-    expect(c.uniformLinks).toBe(true);
-    const general = laneCounts(c, runs, 5, 'totals');
-    const uniform = laneCounts(c, runs, 5, 'uniform');
-    expect(Array.from(uniform.logs)).toEqual(Array.from(general.logs));
-    const tol = { abs: 1e-12, rel: 1e-12 };
-    for (let i = 0; i < c.nCells; i++) {
-      expectClose(uniform.dwell[i], general.dwell[i], tol, `dwell ${i}`);
-      expectClose(uniform.lastGamma[i], general.lastGamma[i], tol, `last γ ${i}`);
-    }
-    for (let x = 0; x < general.emit.length; x++) expectClose(uniform.emit[x], general.emit[x], tol, `emit ${x}`);
-  });
-
-  it('chainFromModel marks a chain with differing link probabilities as not uniform', () => {
-    // randomModel draws every transition independently, so some cell has two different link probabilities.
-    expect(chain.uniformLinks).toBe(false);
-    expect(Array.from(chain.linkProb).some(Number.isNaN)).toBe(true);
   });
 
   it('backwardCountsSegment (one run) gives the plain expectedCounts (≤ 1e-12)', () => {
