@@ -6,7 +6,7 @@
  *
  * Writes the scenario's floor (default medium) to a temporary directory, simulates runs there with
  * `underfoot simulate` (the scenario's run count and length, 2 % dropouts), then runs
- * `underfoot fit --restarts 1 --max-iter 4 --tol 0` (a fixed amount of work: 11 E-steps) `repeats`
+ * `underfoot fit --restarts 2 --max-iter 10 --tol 0` (a fixed amount of work: 34 E-steps) `repeats`
  * times (default 3) with `--workers 1` and with `--workers 2`, alternating, under `/usr/bin/time` for
  * the peak resident set size. Prints every timing, the medians and their ratio, and checks that both
  * worker counts wrote byte-identical models. The temporary directory is removed at the end.
@@ -46,7 +46,7 @@ try {
   const runsFile = path.join(dir, 'runs.arrow');
   writeFileSync(floorFile, JSON.stringify(scenario.floor));
   run(['simulate', '--floor', floorFile, '--runs', String(spec.nRuns), '--steps', String(spec.nSteps), '--dropout-rate', '0.02', '--seed', '1', '--out', runsFile, '-q']);
-  const common = ['fit', '--floor', floorFile, '--runs', runsFile, '--restarts', '1', '--max-iter', '4', '--tol', '0', '--seed', '1', '-q'];
+  const common = ['fit', '--floor', floorFile, '--runs', runsFile, '--restarts', '2', '--max-iter', '10', '--tol', '0', '--seed', '1', '-q'];
   const times: Record<1 | 2, Array<{ seconds: number; rssMB: number }>> = { 1: [], 2: [] };
   console.log(`fit on the ${size} building (${scenario.floor.cells.length} cells), ${spec.nRuns} runs × ${spec.nSteps} steps; cores: ${os.availableParallelism()}; load average ${os.loadavg().map((x) => x.toFixed(2)).join(' ')}`);
   for (let k = 0; k < repeats; k++) {

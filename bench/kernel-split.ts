@@ -5,7 +5,8 @@
  *
  * Each kernel runs `repeats` times (default 7) over the first `runs` runs (default 40, a multiple of 8);
  * the median and the fastest pass are printed in ns per step-link (total steps × transition nonzeros).
- * The old one-run kernels (CSR/CSC loops, normalise every step) are timed beside the lane kernels.
+ * The old one-run kernels (CSR/CSC loops, normalise every step) are timed beside the lane kernels, in
+ * JavaScript and (where available) WebAssembly SIMD.
  */
 import { makeScenario } from './make-scenario.js';
 import { chainFromModel } from '../src/model/chain-from-model.js';
@@ -19,6 +20,7 @@ import { backwardCountsLanes } from '../src/kernels/backward-counts-lanes.js';
 import { backwardTotalsLanes } from '../src/kernels/backward-totals-lanes.js';
 import { fillLaneGroup } from '../src/kernels/fill-lane-group.js';
 import { LANES, type LaneGroup } from '../src/kernels/sparse-chain.js';
+import { WasmLaneKernels } from '../src/kernels/wasm-lane-kernels.js';
 
 const nRuns = Number(process.argv[2] ?? 40);
 const repeats = Number(process.argv[3] ?? 7);
@@ -81,6 +83,21 @@ const rows: Array<[string, () => void]> = [
     }
   }],
 ];
+if (WasmLaneKernels.available()) {
+  const wasm = new WasmLaneKernels();
+  const wasmPass = (perLink: boolean | null) => (): void => {
+    for (const g of groups) {
+      wasm.prepare(chain, g, T);
+      wasm.forward(0, T, logs);
+      if (perLink === null) continue;
+      wasm.resetBackward();
+      wasm.backward(0, T, perLink);
+    }
+  };
+  rows.push(['WebAssembly forwardLanes', wasmPass(null)]);
+  rows.push(['WebAssembly forward + backwardCounts', wasmPass(true)]);
+  rows.push(['WebAssembly forward + backwardTotals', wasmPass(false)]);
+}
 
 const times = new Map<string, number[]>();
 for (const [label, fn] of rows) fn(); // warm-up

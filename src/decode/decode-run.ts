@@ -27,8 +27,9 @@ export interface DecodedRun {
 export interface DecodeOptions {
   /**
    * A run whose forward table (or Viterbi back-pointers) would take more bytes than this is decoded in
-   * checkpointed segments of ⌈√steps⌉ steps: memory then grows with √steps, for one more forward and
-   * one more Viterbi pass. The results are the same either way. @default 64 MiB
+   * checkpointed segments (`segmentSteps`): memory then stays near the limit, or grows with √steps for
+   * very long runs, for up to one more forward and one more Viterbi pass. The results are the same
+   * either way. @default 64 MiB
    */
   plainLimitBytes?: number;
 }

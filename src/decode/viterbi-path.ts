@@ -1,32 +1,51 @@
 import type { SparseChain } from '../kernels/sparse-chain.js';
 import { viterbiSegment } from '../kernels/viterbi-segment.js';
 import { segmentSteps } from '../kernels/segment-steps.js';
+import { WasmViterbi } from '../kernels/wasm-viterbi.js';
 import type { LogChain } from './log-chain.js';
 import { backPointerArray } from './back-pointer-array.js';
 
+/** One WebAssembly Viterbi per thread, reused by every call (its memory grows to the largest run seen). */
+let wasm: WasmViterbi | null | undefined;
+
 /**
- * The Viterbi path of one run (`viterbiSegment`; ties to the lowest cell index, as `viterbiLog`) into
- * `pathOut`, returning its joint log-probability log P(path, readings), or −Infinity when every path is
- * impossible (then `pathOut` is filled with −1).
+ * The Viterbi path of one run (ties to the lowest cell index, as `viterbiLog`) into `pathOut`, returning
+ * its joint log-probability log P(path, readings), or −Infinity when every path is impossible (then
+ * `pathOut` is filled with −1). Runs `viterbiSegment` as WebAssembly (`WasmViterbi`: the same numbers)
+ * where available and `useWasm`, else in JavaScript.
  *
  * Back-pointers are kept in the narrowest integer type that holds the cell count. When the run's
- * back-pointers would exceed `limitBytes`, the decoding is checkpointed: the first pass keeps only the
- * score vector δ at the entry of each ⌈√T⌉-step segment, and the trace-back re-runs each segment from
- * its checkpoint to get its back-pointers again — memory grows as √T, for a second pass, and the path
- * is the same as in one pass (the re-run is bit-identical).
+ * back-pointers would exceed `limitBytes`, the decoding is checkpointed (`segmentSteps`): the first pass
+ * keeps only the score vector δ at the entry of each segment, and the trace-back re-runs each segment
+ * but the last from its checkpoint to get its back-pointers again — memory stays near the limit (or
+ * grows as √T), for up to a second pass, and the path is the same as in one pass (the re-run is
+ * bit-identical).
  */
-export function viterbiPath(chain: SparseChain, log: LogChain, obs: Int32Array, limitBytes: number, pathOut: Int32Array): number {
+export function viterbiPath(chain: SparseChain, log: LogChain, obs: Int32Array, limitBytes: number, pathOut: Int32Array, useWasm = true): number {
   const n = chain.nCells;
   const T = obs.length;
   if (T === 0) return 0;
   const pointerBytes = n <= 256 ? 1 : n <= 65536 ? 2 : 4;
   const segment = segmentSteps(T, n * pointerBytes, limitBytes);
   const nSegments = Math.ceil(T / segment);
-  const back = backPointerArray(n, segment * n);
-  const delta = new Float64Array(2 * n);
   const checkpoints = new Float64Array(nSegments > 1 ? nSegments * n : 0);
-  const run = (a: number, b: number): void =>
-    viterbiSegment(n, chain.nReadings, log.logStart, chain.predPtr, chain.predIdx, log.logPredProb, log.logEmitT, obs, a, b, delta, back);
+  // The kernels take the dwell apart from the links (both as logs, in the chain's dwell/`in` split).
+  const logDwell = Float64Array.from(chain.dwell, Math.log);
+  const logInProb = Float64Array.from(chain.inProb, Math.log);
+
+  if (useWasm && wasm === undefined) wasm = WasmViterbi.available() ? new WasmViterbi() : null;
+  const machine = useWasm ? wasm : null;
+  let delta: Float64Array;
+  let back: Uint8Array | Uint16Array | Int32Array;
+  let run: (a: number, b: number) => void;
+  if (machine) {
+    ({ delta, back } = machine.prepare(chain, log.logStart, logDwell, logInProb, log.logEmitT, obs, segment));
+    run = (a, b) => machine.run(a, b);
+  } else {
+    delta = new Float64Array(2 * n);
+    back = backPointerArray(n, segment * n);
+    run = (a, b) => viterbiSegment(n, chain.nReadings, log.logStart, logDwell, chain.inPtr, chain.inIdx, logInProb, log.logEmitT, obs, a, b, delta, back);
+  }
 
   for (let g = 0; g < nSegments; g++) {
     if (g > 0) checkpoints.set(delta.subarray(0, n), g * n);

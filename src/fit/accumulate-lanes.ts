@@ -1,23 +1,20 @@
 import { LANES, type SparseChain } from '../kernels/sparse-chain.js';
 import { fillLaneGroup } from '../kernels/fill-lane-group.js';
-import { forwardLanes } from '../kernels/forward-lanes.js';
-import { backwardCountsLanes } from '../kernels/backward-counts-lanes.js';
-import { backwardTotalsLanes } from '../kernels/backward-totals-lanes.js';
 import { segmentSteps } from '../kernels/segment-steps.js';
 import type { ExpectedCountsTable } from '../model/expected-counts-table.js';
 import type { EStepWorkspace } from './e-step-workspace.js';
 import { foldCounts } from './fold-counts.js';
 
 /**
- * E-step of up to `LANES` runs side by side (the lane kernels: one pass over the transitions serves
- * every run of the group), added into `counts`. Writes each run's log-likelihood into `logOut[k]`
- * (−Infinity for a run impossible under the model) and returns false when any run was impossible —
- * then nothing is added, and the caller names the run. Counts are per link when `perLink`, else only
- * each row's dwell and link totals (see `ExpectedCountsTable.trans`). `logLik`, `nReadings` and
- * `nRuns` are left to the caller, who adds them in block order.
+ * E-step of up to `LANES` runs side by side (the lane kernels, `ws.lanes()`: one pass over the
+ * transitions serves every run of the group), added into `counts`. Writes each run's log-likelihood into
+ * `logOut[k]` (−Infinity for a run impossible under the model) and returns false when any run was
+ * impossible — then nothing is added, and the caller names the run. Counts are per link when `perLink`,
+ * else only each row's dwell and link totals (see `ExpectedCountsTable.trans`). `logLik`, `nReadings`
+ * and `nRuns` are left to the caller, who adds them in block order.
  *
  * A group whose forward table would exceed `ws.plainLimitBytes` is done as a checkpointed
- * forward-backward in ⌈√T⌉-step segments (see `accumulateRun`).
+ * forward-backward (`segmentSteps`; see `addRunCounts`).
  */
 export function accumulateLanes(
   chain: SparseChain,
@@ -33,8 +30,10 @@ export function accumulateLanes(
   const T = group.nSteps;
   const segment = segmentSteps(T, row * 8, ws.plainLimitBytes);
   const nSegments = T === 0 ? 0 : Math.ceil(T / segment);
-  ws.ensure(n, chain.nReadings, chain.outPtr[n], LANES, T, segment, nSegments);
-  const { table, scale, checkpoints } = ws;
+  const lanes = ws.lanes();
+  lanes.prepare(chain, group, segment);
+  const table = lanes.table;
+  const checkpoints = nSegments > 1 ? ws.ensureCheckpoints(nSegments * row) : ws.checkpoints;
   logOut.fill(0, 0, LANES);
 
   for (let g = 0; g < nSegments; g++) {
@@ -44,24 +43,20 @@ export function accumulateLanes(
       table.copyWithin(0, segment * row, (segment + 1) * row);
       checkpoints.set(table.subarray(0, row), g * row);
     }
-    forwardLanes(chain, group, a, b, table, scale, logOut);
+    lanes.forward(a, b, logOut);
   }
   for (let k = 0; k < runs.length; k++) if (logOut[k] === -Infinity) return false;
 
-  ws.w.fill(0, 0, row);
+  lanes.resetBackward();
   for (let g = nSegments - 1; g >= 0; g--) {
     const a = g * segment;
     const b = Math.min(T, a + segment);
     if (g < nSegments - 1) {
       if (g > 0) table.set(checkpoints.subarray(g * row, (g + 1) * row), 0);
-      forwardLanes(chain, group, a, b, table, scale, ws.logs);
+      lanes.forward(a, b, ws.logs);
     }
-    if (perLink) {
-      backwardCountsLanes(chain, group, a, b, table, scale, ws.w, ws.wSpare, ws.emitCount, ws.linkCount, ws.dwellCount, counts.start);
-    } else {
-      backwardTotalsLanes(chain, group, a, b, table, scale, ws.w, ws.wSpare, ws.emitCount, ws.dwellCount, ws.lastGamma, counts.start);
-    }
+    lanes.backward(a, b, perLink);
   }
-  foldCounts(chain, ws, counts, perLink);
+  foldCounts(chain, lanes.accumulators, counts, perLink);
   return true;
 }

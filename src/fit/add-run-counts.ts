@@ -14,9 +14,10 @@ import { foldCounts } from './fold-counts.js';
  * added.
  *
  * A run whose forward table would exceed `ws.plainLimitBytes` is done as a checkpointed
- * forward-backward: the forward pass keeps only the vector at the entry of each ⌈√T⌉-step segment, and
- * the backward pass recomputes each segment's rows from its checkpoint (bit-identical to the first pass,
- * so the results do not depend on the segmenting), so memory grows as √T.
+ * forward-backward (`segmentSteps`): the forward pass keeps only the vector at the entry of each
+ * segment, and the backward pass recomputes each segment's rows from its checkpoint (bit-identical to
+ * the first pass, so the results do not depend on the segmenting); memory stays near the limit, or
+ * grows as √T for very long runs.
  */
 export function addRunCounts(
   chain: SparseChain,
@@ -29,8 +30,10 @@ export function addRunCounts(
   const nLinks = chain.outPtr[n];
   const segment = segmentSteps(T, n * 8, ws.plainLimitBytes);
   const nSegments = T === 0 ? 0 : Math.ceil(T / segment);
-  ws.ensure(n, chain.nReadings, nLinks, 1, T, segment, nSegments);
-  const { table, scale, checkpoints } = ws;
+  ws.ensure(n, chain.nReadings, nLinks, T, segment);
+  const checkpoints = nSegments > 1 ? ws.ensureCheckpoints(nSegments * n) : ws.checkpoints;
+  const { table, scale } = ws;
+  const acc = ws.counts;
 
   // Forward, segment by segment; row 0 of the table carries the previous segment's last row.
   let logP = 0;
@@ -54,8 +57,8 @@ export function addRunCounts(
       if (g > 0) table.set(checkpoints.subarray(g * n, (g + 1) * n), 0);
       forwardSegment(chain, obs, a, b, table, scale, 0);
     }
-    backwardCountsSegment(chain, obs, a, b, table, scale, ws.w, ws.wSpare, ws.emitCount, ws.linkCount, ws.dwellCount, counts.start);
+    backwardCountsSegment(chain, obs, a, b, table, scale, ws.w, ws.wSpare, acc.emitCount, acc.linkCount, acc.dwellCount, acc.startCount);
   }
-  foldCounts(chain, ws, counts, true);
+  foldCounts(chain, acc, counts, true);
   return logP;
 }

@@ -1,59 +1,85 @@
 import { LANES, type LaneGroup } from '../kernels/sparse-chain.js';
+import type { LaneAccumulators, LaneKernels } from '../kernels/lane-kernels.js';
+import { JsLaneKernels } from '../kernels/js-lane-kernels.js';
+import { WasmLaneKernels } from '../kernels/wasm-lane-kernels.js';
 
 /** Forward tables above this size are processed in checkpointed segments (see `segmentSteps`). */
-export const DEFAULT_PLAIN_LIMIT_BYTES = 64 * 1024 * 1024;
+export const DEFAULT_PLAIN_LIMIT_BYTES = 128 * 1024 * 1024;
 
 /**
  * Reusable buffers for the E-step and scoring, one run or one lane group at a time, grown on demand and
  * never shrunk, so a long fit allocates once per worker rather than once per run. Sizes are in numbers
- * (float64) unless said otherwise.
+ * (float64) unless said otherwise. The lane groups' own buffers live in `lanes()` (WebAssembly memory
+ * when available).
  */
 export class EStepWorkspace {
   /**
    * A run (or lane group) whose forward table would take more bytes than this is processed in
-   * checkpointed segments of ⌈√steps⌉ steps: memory then grows with √steps instead of steps.
-   * @default 64 MiB
+   * checkpointed segments (see `segmentSteps`): memory then stays near this limit, or grows with
+   * √steps for very long runs, instead of growing with steps. @default 128 MiB
    */
   plainLimitBytes = DEFAULT_PLAIN_LIMIT_BYTES;
-  /** Forward table of one segment, with its entry row: (segment steps + 1) × cells × lanes. */
+  /**
+   * Run the lane kernels as WebAssembly SIMD where the runtime has it (same numbers, bit for bit, about
+   * three times faster); false forces the JavaScript kernels. @default true
+   */
+  useWasm = true;
+  /** One run's forward table for a segment, with its entry row: (segment steps + 1) × cells. */
   table = new Float64Array(0);
-  /** Scaling factors c_t of the whole run or group: steps × lanes. */
+  /** One run's scaling factors c_t: steps. */
   scale = new Float64Array(0);
-  /** Forward vectors at the entry of every segment (checkpointed runs only): segments × cells × lanes. */
+  /** Forward vectors at the entry of every segment (checkpointed runs and groups): segments × cells × lanes. */
   checkpoints = new Float64Array(0);
-  /** w vectors of the backward pass and their ping-pong partner: cells × lanes each. */
+  /** One run's ŵ vector of the backward pass and its ping-pong partner: cells each. */
   w = new Float64Array(0);
   wSpare = new Float64Array(0);
-  /** Per-run (per-group) count accumulators, folded into the counts table when the run is done. */
-  emitCount = new Float64Array(0);
-  linkCount = new Float64Array(0);
-  dwellCount = new Float64Array(0);
-  lastGamma = new Float64Array(0);
+  /** One run's count accumulators, folded into the counts table when the run is done. */
+  counts: LaneAccumulators = {
+    emitCount: new Float64Array(0),
+    linkCount: new Float64Array(0),
+    dwellCount: new Float64Array(0),
+    lastGamma: new Float64Array(0),
+    startCount: new Float64Array(0),
+  };
   /** Scratch for the log sums of recomputed segments (discarded). */
   logs = new Float64Array(LANES);
   /** The lane group being processed (its `rows` buffer grows on demand). */
   group: LaneGroup = { nSteps: 0, laneSteps: new Int32Array(LANES), rows: new Int32Array(0) };
+  private laneKernels: LaneKernels | null = null;
+
+  /** The lane kernels, created on first use: WebAssembly SIMD when available and `useWasm`, else JavaScript. */
+  lanes(): LaneKernels {
+    const wasm = this.useWasm && WasmLaneKernels.available();
+    if (this.laneKernels === null || (this.laneKernels instanceof WasmLaneKernels) !== wasm) {
+      this.laneKernels = wasm ? new WasmLaneKernels() : new JsLaneKernels();
+    }
+    return this.laneKernels;
+  }
 
   /**
-   * Makes sure the buffers hold a run (`lanes` = 1) or a lane group (`lanes` = LANES) of `nSteps` steps
-   * processed in segments of `segment` steps, with `nSegments` checkpoints, over `nCells` cells,
-   * `nReadings` readings and `nLinks` links; returns this.
+   * Makes sure the one-run buffers hold a run of `nSteps` steps processed in segments of `segment`
+   * steps over `nCells` cells, `nReadings` readings and `nLinks` links; returns this.
    */
-  ensure(nCells: number, nReadings: number, nLinks: number, lanes: number, nSteps: number, segment: number, nSegments: number): this {
-    const row = nCells * lanes;
-    if (this.table.length < (segment + 1) * row) this.table = new Float64Array((segment + 1) * row);
-    if (this.scale.length < nSteps * lanes) this.scale = new Float64Array(nSteps * lanes);
-    if (nSegments > 1 && this.checkpoints.length < nSegments * row) this.checkpoints = new Float64Array(nSegments * row);
-    if (this.w.length < row) {
-      this.w = new Float64Array(row);
-      this.wSpare = new Float64Array(row);
+  ensure(nCells: number, nReadings: number, nLinks: number, nSteps: number, segment: number): this {
+    if (this.table.length < (segment + 1) * nCells) this.table = new Float64Array((segment + 1) * nCells);
+    if (this.scale.length < nSteps) this.scale = new Float64Array(nSteps);
+    if (this.w.length < nCells) {
+      this.w = new Float64Array(nCells);
+      this.wSpare = new Float64Array(nCells);
     }
-    if (this.emitCount.length < (nReadings + 1) * nCells) this.emitCount = new Float64Array((nReadings + 1) * nCells);
-    if (this.linkCount.length < nLinks) this.linkCount = new Float64Array(nLinks);
-    if (this.dwellCount.length < nCells) {
-      this.dwellCount = new Float64Array(nCells);
-      this.lastGamma = new Float64Array(nCells);
-    }
+    const c = this.counts;
+    const grow = (x: Float64Array, size: number): Float64Array => (x.length < size ? new Float64Array(size) : x);
+    c.emitCount = grow(c.emitCount, (nReadings + 1) * nCells);
+    c.linkCount = grow(c.linkCount, nLinks);
+    c.dwellCount = grow(c.dwellCount, nCells);
+    c.lastGamma = grow(c.lastGamma, nCells);
+    c.startCount = grow(c.startCount, nCells);
     return this;
+  }
+
+  /** Makes sure `checkpoints` holds `size` numbers; returns it. */
+  ensureCheckpoints(size: number): Float64Array {
+    if (this.checkpoints.length < size) this.checkpoints = new Float64Array(size);
+    return this.checkpoints;
   }
 }

@@ -1,15 +1,17 @@
 import { LANES } from '../kernels/sparse-chain.js';
 
-/** Fewest runs worth a lane pass (measured: one lane pass ≈ three one-run passes). */
-export const MIN_LANE_RUNS = 3;
+/**
+ * Fewest runs worth a lane pass: with the WebAssembly lane kernels a pass of eight lanes costs about as
+ * much as one and a half one-run passes (measured with bench/kernel-split.ts), so two runs already gain.
+ */
+export const MIN_LANE_RUNS = 2;
 
 /**
  * How a block's runs are laid into lane groups: positions in the block (0 … runs.length-1), longest
  * run first (ties in block order), taken `LANES` at a time as long as a run is at least half as long as
  * its group's first — so the lanes of a group waste at most half their steps on padding. A group of
- * fewer than `MIN_LANE_RUNS` runs is split into groups of one, which go through the single-run kernels
- * (a lane pass costs about as much as three one-run passes, whatever the number of lanes in use).
- * Depends only on the block's run lengths, so every worker count gives the same groups.
+ * fewer than `MIN_LANE_RUNS` runs goes through the single-run kernels. Depends only on the block's run
+ * lengths (not on the machine or the kernels in use), so every worker count gives the same groups.
  */
 export function laneGroups(runs: ArrayLike<number>, offsets: Int32Array): number[][] {
   const length = (b: number): number => offsets[runs[b] + 1] - offsets[runs[b]];

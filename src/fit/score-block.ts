@@ -1,6 +1,5 @@
 import { LANES, type SparseChain } from '../kernels/sparse-chain.js';
 import { fillLaneGroup } from '../kernels/fill-lane-group.js';
-import { forwardLanes } from '../kernels/forward-lanes.js';
 import { forwardSegment } from '../kernels/forward-segment.js';
 import type { EStepWorkspace } from './e-step-workspace.js';
 import type { PackedRuns } from './packed-runs.js';
@@ -13,14 +12,15 @@ export interface BlockScore {
   impossibleRun: number;
 }
 
-/** Forward rows kept while scoring: a short rolling window that stays in cache (about 256 KiB). */
+/** Forward rows kept while scoring: a short rolling window that stays in cache (about 256 KiB, ≥ 8 rows). */
 const WINDOW_BYTES = 256 * 1024;
+const MIN_WINDOW = 8;
 
 /**
  * Σ log P(readings) of one block of runs, added in block order. Forward pass only, in a rolling window
- * of rows (memory independent of run length); runs of similar length go through `forwardLanes` `LANES`
- * at a time (the same grouping as `accumulateBlock`), a run left alone through `forwardSegment`. A run's
- * log-likelihood is the same number either way, and the same as the E-step's.
+ * of rows (memory independent of run length); runs of similar length go through the lane kernels
+ * (`ws.lanes()`) up to `LANES` at a time (the grouping of `accumulateBlock`), a run left alone through
+ * `forwardSegment`. A run's log-likelihood is the same number either way, and the same as the E-step's.
  */
 export function scoreBlock(chain: SparseChain, packed: PackedRuns, runs: ArrayLike<number>, ws: EStepWorkspace): BlockScore {
   const obsOf = (r: number): Int32Array => packed.obs.subarray(packed.offsets[r], packed.offsets[r + 1]);
@@ -48,8 +48,8 @@ export function scoreBlock(chain: SparseChain, packed: PackedRuns, runs: ArrayLi
 function scoreOne(chain: SparseChain, obs: Int32Array, ws: EStepWorkspace): number {
   const n = chain.nCells;
   const T = obs.length;
-  const window = Math.max(1, Math.floor(WINDOW_BYTES / (8 * n)) - 1);
-  ws.ensure(n, chain.nReadings, chain.outPtr[n], 1, T, window, 1);
+  const window = Math.max(MIN_WINDOW, Math.floor(WINDOW_BYTES / (8 * n)) - 1);
+  ws.ensure(n, chain.nReadings, chain.outPtr[n], T, window);
   let logP = 0;
   for (let a = 0; a < T; a += window) {
     const b = Math.min(T, a + window);
@@ -65,12 +65,14 @@ function scoreLanes(chain: SparseChain, runs: Int32Array[], ws: EStepWorkspace, 
   const row = LANES * n;
   const group = fillLaneGroup(runs, n, chain.nReadings, ws.group);
   const T = group.nSteps;
-  const window = Math.max(1, Math.floor(WINDOW_BYTES / (8 * row)) - 1);
-  ws.ensure(n, chain.nReadings, chain.outPtr[n], LANES, T, window, 1);
+  const window = Math.max(MIN_WINDOW, Math.floor(WINDOW_BYTES / (8 * row)) - 1);
+  const lanes = ws.lanes();
+  lanes.prepare(chain, group, window);
+  const table = lanes.table;
   logOut.fill(0);
   for (let a = 0; a < T; a += window) {
     const b = Math.min(T, a + window);
-    if (a > 0) ws.table.copyWithin(0, window * row, (window + 1) * row);
-    forwardLanes(chain, group, a, b, ws.table, ws.scale, logOut);
+    if (a > 0) table.copyWithin(0, window * row, (window + 1) * row);
+    lanes.forward(a, b, logOut);
   }
 }

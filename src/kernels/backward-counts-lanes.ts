@@ -21,6 +21,9 @@ import type { LaneGroup, SparseChain } from './sparse-chain.js';
  * β̂_{T-1} = 1 exactly for each lane at its own length; padded steps have ŵ = 0, hence β' = 0, and add
  * exact zeros, so lanes of different lengths share the pass without changing any sum.
  *
+ * Sums across lanes are taken in the order ((k0 + k2) + (k4 + k6)) + ((k1 + k3) + (k5 + k7)) — that of
+ * four two-lane vectors added pairwise — so that `backwardLanesWasm` gives the same numbers bit for bit.
+ *
  * Loop tricks, and why: eight lanes per pass (each link's index and probability loaded once for eight
  * runs, see `forwardLanes`); the dwell is a contiguous term outside the link loop; one pass over the
  * links per step does the backward product and the ξ accumulation together; ŵ_t is produced in the
@@ -94,7 +97,7 @@ export function backwardCountsLanes(
       const d5 = dw * next[y + 5];
       const d6 = dw * next[y + 6];
       const d7 = dw * next[y + 7];
-      dwellCount[i] += u0 * d0 + u1 * d1 + u2 * d2 + u3 * d3 + u4 * d4 + u5 * d5 + u6 * d6 + u7 * d7;
+      dwellCount[i] += ((u0 * d0 + u2 * d2) + (u4 * d4 + u6 * d6)) + ((u1 * d1 + u3 * d3) + (u5 * d5 + u7 * d7));
       let l0 = 0;
       let l1 = 0;
       let l2 = 0;
@@ -123,7 +126,7 @@ export function backwardCountsLanes(
         l5 += v5;
         l6 += v6;
         l7 += v7;
-        linkCount[q] += u0 * v0 + u1 * v1 + u2 * v2 + u3 * v3 + u4 * v4 + u5 * v5 + u6 * v6 + u7 * v7;
+        linkCount[q] += ((u0 * v0 + u2 * v2) + (u4 * v4 + u6 * v6)) + ((u1 * v1 + u3 * v3) + (u5 * v5 + u7 * v7));
       }
       const b0 = d0 + l0 + z0;
       const b1 = d1 + l1 + z1;
@@ -149,7 +152,7 @@ export function backwardCountsLanes(
       emitCount[e5 + i] += g5;
       emitCount[e6 + i] += g6;
       emitCount[e7 + i] += g7;
-      if (t === 0) startCount[i] += g0 + g1 + g2 + g3 + g4 + g5 + g6 + g7;
+      if (t === 0) startCount[i] += ((g0 + g2) + (g4 + g6)) + ((g1 + g3) + (g5 + g7));
       out[y + 0] = p0 * emitT[e0 + i] * b0;
       out[y + 1] = p1 * emitT[e1 + i] * b1;
       out[y + 2] = p2 * emitT[e2 + i] * b2;

@@ -79,7 +79,7 @@ export function backwardTotalsLanes(
       const d5 = dw * next[y + 5];
       const d6 = dw * next[y + 6];
       const d7 = dw * next[y + 7];
-      dwellCount[i] += u0 * d0 + u1 * d1 + u2 * d2 + u3 * d3 + u4 * d4 + u5 * d5 + u6 * d6 + u7 * d7;
+      dwellCount[i] += ((u0 * d0 + u2 * d2) + (u4 * d4 + u6 * d6)) + ((u1 * d1 + u3 * d3) + (u5 * d5 + u7 * d7));
       let l0 = 0;
       let l1 = 0;
       let l2 = 0;
@@ -125,7 +125,7 @@ export function backwardTotalsLanes(
       emitCount[e5 + i] += g5;
       emitCount[e6 + i] += g6;
       emitCount[e7 + i] += g7;
-      if (t === 0) startCount[i] += g0 + g1 + g2 + g3 + g4 + g5 + g6 + g7;
+      if (t === 0) startCount[i] += ((g0 + g2) + (g4 + g6)) + ((g1 + g3) + (g5 + g7));
       out[y + 0] = p0 * emitT[e0 + i] * b0;
       out[y + 1] = p1 * emitT[e1 + i] * b1;
       out[y + 2] = p2 * emitT[e2 + i] * b2;
@@ -139,7 +139,7 @@ export function backwardTotalsLanes(
     if (z0 !== 0 || z1 !== 0 || z2 !== 0 || z3 !== 0 || z4 !== 0 || z5 !== 0 || z6 !== 0 || z7 !== 0) {
       for (let i = 0; i < n; i++) {
         const x = row + 8 * i;
-        lastGamma[i] += table[x + 0] * z0 + table[x + 1] * z1 + table[x + 2] * z2 + table[x + 3] * z3 + table[x + 4] * z4 + table[x + 5] * z5 + table[x + 6] * z6 + table[x + 7] * z7;
+        lastGamma[i] += ((table[x + 0] * z0 + table[x + 2] * z2) + (table[x + 4] * z4 + table[x + 6] * z6)) + ((table[x + 1] * z1 + table[x + 3] * z3) + (table[x + 5] * z5 + table[x + 7] * z7));
       }
     }
     const swap = next;

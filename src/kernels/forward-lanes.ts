@@ -29,7 +29,8 @@ import type { LaneGroup, SparseChain } from './sparse-chain.js';
  * - gather over predecessors: each u_t(j) is written once, no scatter and no zeroing pass;
  * - `| 0` on index arithmetic keeps it in 32-bit integers, sparing V8 an overflow check per access.
  * Every lane's arithmetic is exactly that of `forwardSegment` on the run alone (same order), so a run's
- * numbers do not depend on the group it is in. No allocation.
+ * numbers do not depend on the group it is in, and that of `forwardLanesWasm` (the same numbers, bit for
+ * bit). No allocation.
  */
 export function forwardLanes(
   chain: SparseChain,

@@ -5,6 +5,12 @@
  */
 export interface ExpectedCountsTable {
   start: Float64Array;
+  /**
+   * Expected transitions per nonzero, CSR order. An E-step run for the `tied` or `fixed` M-step (which
+   * read only each cell's dwell count and its total) may store the totals form instead: the dwell count
+   * at the dwell's position and the cell's total over its links at its first link's position, 0 at its
+   * other links (see `accumulateBlock`). Per-link counts satisfy that form too, so the two add up.
+   */
   trans: Float64Array;
   emitT: Float64Array;
   /** Σ log P(readings) over the runs. */

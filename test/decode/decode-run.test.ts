@@ -10,6 +10,7 @@ import { viterbiPath } from '../../src/decode/viterbi-path.js';
 import { forwardScaled } from '../../src/kernels/forward-scaled.js';
 import { backwardScaled } from '../../src/kernels/backward-scaled.js';
 import { viterbiLog } from '../../src/kernels/viterbi-log.js';
+import { equalSplitTransitions } from '../../src/model/equal-split-transitions.js';
 
 // Oracle: the one-pass reference kernels (forwardScaled, backwardScaled, viterbiLog; Rabiner 1989,
 // Proc. IEEE 77(2), eqs. 19–27 and 32–35), checked in test/reference against pomegranate and brute force.
@@ -67,6 +68,24 @@ describe('decodeRun', () => {
     const b = viterbiPath(chain, log, obs, 0, checkpointed);
     expect(b).toBe(a);
     expect(Array.from(checkpointed)).toEqual(Array.from(plain));
+  });
+
+  it('viterbiPath in WebAssembly gives the JavaScript path and log P bit for bit: 1-, 2-byte pointers, ties, checkpoints', () => {
+    const wide = randomModel(3, { nCells: 300, nReadings: 4, linksPerCell: 3 });
+    const flat = { ...model, trans: equalSplitTransitions(model.structure, 0.1), emission: new Float64Array(n * 4).fill(0.25) };
+    for (const m of [model, wide, flat]) {
+      const c = chainFromModel(m);
+      const l = logChain(c);
+      const o = sampleRun(m, 400, new SeededRandom(2), 0.1).obs;
+      for (const limit of [Infinity, 0]) {
+        const a = new Int32Array(o.length);
+        const b = new Int32Array(o.length);
+        const pa = viterbiPath(c, l, o, limit, a, true);
+        const pb = viterbiPath(c, l, o, limit, b, false);
+        expect(pa, `${c.nCells} cells, limit ${limit}`).toBe(pb);
+        expect(Array.from(a)).toEqual(Array.from(b));
+      }
+    }
   });
 
   it('an impossible run decodes to path −1 everywhere and −Infinity, checkpointed or not', () => {

@@ -12,6 +12,7 @@ import { viterbiSegment } from '../../src/kernels/viterbi-segment.js';
 import { posteriorSummary } from '../../src/kernels/posterior-summary.js';
 import { posteriorSummarySegment } from '../../src/kernels/posterior-summary-segment.js';
 import { segmentSteps } from '../../src/kernels/segment-steps.js';
+import { equalSplitTransitions } from '../../src/model/equal-split-transitions.js';
 
 // Oracle: the one-pass kernels `forwardScaled`, `viterbiLog` and `posteriorSummary` (Rabiner 1989,
 // Proc. IEEE 77(2), eqs. 19–20, 24–27 and 32–35; Viterbi 1967), which test/reference checks against
@@ -55,19 +56,48 @@ describe('segment kernels', () => {
     for (let t = 0; t < T; t++) for (let i = 0; i < n; i++) expectClose(table[(t + 1) * n + i] * scale[t], alpha[t * n + i], { abs: 1e-12 }, `t ${t} i ${i}`);
   });
 
-  it('viterbiSegment in segments of 13 gives viterbiLog’s scores and back-pointers', () => {
+  it('viterbiSegment in segments of 13 gives viterbiLog’s scores and back-pointers, ties included', () => {
     const log = logChain(chain);
     const back = new Int32Array(T * n);
     const path = new Int32Array(T);
     const best = viterbiLog(n, chain.nReadings, log.logStart, chain.predPtr, chain.predIdx, log.logPredProb, log.logEmitT, obs, T, new Float64Array(2 * n), back, path);
     const B = 13;
+    const logDwell = Float64Array.from(chain.dwell, Math.log);
+    const logInProb = Float64Array.from(chain.inProb, Math.log);
     const delta = new Float64Array(2 * n);
     const segBack = new Int32Array(B * n);
     for (let a = 0; a < T; a += B) {
       const b = Math.min(T, a + B);
-      viterbiSegment(n, chain.nReadings, log.logStart, chain.predPtr, chain.predIdx, log.logPredProb, log.logEmitT, obs, a, b, delta, segBack);
+      viterbiSegment(n, chain.nReadings, log.logStart, logDwell, chain.inPtr, chain.inIdx, logInProb, log.logEmitT, obs, a, b, delta, segBack);
       for (let t = Math.max(a, 1); t < b; t++) for (let j = 0; j < n; j++) expect(segBack[(t - a) * n + j]).toBe(back[t * n + j]);
     }
+    let top = -Infinity;
+    for (let j = 0; j < n; j++) top = Math.max(top, delta[j]);
+    expect(top).toBe(best);
+  });
+
+  it('viterbiSegment breaks exact ties like viterbiLog (lowest cell index), with the dwell taken first', () => {
+    // Equal-split transitions (dwell 0.1, below the links) and one shared emission row: predecessors tie exactly.
+    const flat = { ...model, trans: equalSplitTransitions(model.structure, 0.1), emission: Float64Array.from({ length: n * 5 }, (_, x) => [0.1, 0.2, 0.3, 0.15, 0.25][x % 5]), start: new Float64Array(n).fill(1 / n) };
+    const c = chainFromModel(flat);
+    const log = logChain(c);
+    const back = new Int32Array(T * n);
+    const path = new Int32Array(T);
+    const best = viterbiLog(n, c.nReadings, log.logStart, c.predPtr, c.predIdx, log.logPredProb, log.logEmitT, obs, T, new Float64Array(2 * n), back, path);
+    const delta = new Float64Array(2 * n);
+    const segBack = new Int32Array(T * n);
+    viterbiSegment(n, c.nReadings, log.logStart, Float64Array.from(c.dwell, Math.log), c.inPtr, c.inIdx, Float64Array.from(c.inProb, Math.log), log.logEmitT, obs, 0, T, delta, segBack);
+    // At step 1 every δ_0 is equal, so a cell's best predecessors tie whenever two of them share the best
+    // transition probability: make sure the case exercises ties at all.
+    let tiedCells = 0;
+    for (let j = 0; j < n; j++) {
+      const scores: number[] = [];
+      for (let p = c.predPtr[j]; p < c.predPtr[j + 1]; p++) scores.push(log.logPredProb[p]);
+      const top = Math.max(...scores);
+      if (scores.filter((v) => v === top).length > 1) tiedCells++;
+    }
+    expect(tiedCells).toBeGreaterThan(0);
+    for (let t = 1; t < T; t++) for (let j = 0; j < n; j++) expect(segBack[t * n + j], `ψ ${t} ${j}`).toBe(back[t * n + j]);
     let top = -Infinity;
     for (let j = 0; j < n; j++) top = Math.max(top, delta[j]);
     expect(top).toBe(best);
@@ -114,10 +144,13 @@ describe('segment kernels', () => {
     }
   });
 
-  it('segmentSteps(nSteps, rowBytes, limit) is the whole run when it fits, else ⌈√nSteps⌉', () => {
+  it('segmentSteps(nSteps, rowBytes, limit) is the whole run when it fits, else as long as the limit allows but ≥ ⌈√nSteps⌉', () => {
     expect(segmentSteps(1000, 8, 8 * 1001)).toBe(1000);
-    expect(segmentSteps(1000, 8, 8 * 1000)).toBe(32);
-    expect(segmentSteps(1_000_000, 3200, 64 * 2 ** 20)).toBe(1000);
+    expect(segmentSteps(1000, 8, 8 * 1000)).toBe(999);
+    expect(segmentSteps(1000, 8, 8 * 400)).toBe(399);
+    expect(segmentSteps(1000, 8, 8 * 10)).toBe(32);
+    expect(segmentSteps(1000, 8, 0)).toBe(32);
+    expect(segmentSteps(1_000_000, 3200, 0)).toBe(1000);
     expect(segmentSteps(0, 8, 0)).toBe(1);
   });
 });
