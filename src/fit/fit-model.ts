@@ -100,7 +100,7 @@ export async function fitModel(
   const fitBlocks = toBlocks(split.fit, o.blockSize);
   const heldBlocks = toBlocks(split.heldOut, o.blockSize);
   const allBlocks = toBlocks(Array.from({ length: runs.length }, (_, r) => r), o.blockSize);
-  const engine: EStepEngine = workers > 1 ? new PoolEngine(packed, workers) : new LocalEngine(packed);
+  const engine: EStepEngine = workers > 1 ? new PoolEngine(packed, workers, { mode: o.transitions }) : new LocalEngine(packed, { mode: o.transitions });
   try {
     const seeds = restartSeeds(o.seed, o.restarts);
     const restarts: LoopRecord[] = [];
