@@ -2,7 +2,7 @@ import { InputError, quote } from '../errors.js';
 import { buildStructure } from '../model/build-structure.js';
 import type { HmmModel, ModelCell } from '../model/hmm-model.js';
 import type { FitRecord } from '../fit/fit-record.js';
-import { locateJsonError } from './locate-json-error.js';
+import { parseJsonDocument } from './parse-json-document.js';
 import { MODEL_FORMAT, type ModelFile } from './model-file.js';
 
 /** Rows of probabilities must sum to 1 within this (they are written with full precision). */
@@ -16,13 +16,7 @@ export function parseModel(text: string, source: string): ModelFile {
   const fail = (what: string): never => {
     throw new InputError(`${source}: ${what}`);
   };
-  let doc: unknown;
-  try {
-    doc = JSON.parse(text.charCodeAt(0) === 0xfeff ? text.slice(1) : text);
-  } catch {
-    const where = locateJsonError(text);
-    fail(`the model file must be valid JSON, got ${where ? `${where.what} at line ${where.line}, column ${where.column}` : 'invalid JSON'}`);
-  }
+  const doc = parseJsonDocument(text, source, 'model file');
   const root = asObject(doc, 'the model file', fail);
   if (root.format !== MODEL_FORMAT) fail(`"format" must be ${quote(MODEL_FORMAT)}, got ${quote(root.format)}`);
   allowKeys(root, ['format', 'name', 'surfaces', 'cells', 'links', 'emission', 'fit'], 'the model file', fail);

@@ -1,6 +1,6 @@
 import { dirname, resolve } from 'node:path';
 import { InputError, quote } from '../errors.js';
-import { locateJsonError } from './locate-json-error.js';
+import { parseJsonDocument } from './parse-json-document.js';
 import { PIPELINE_FORMAT, type PipelineFile } from './pipeline-file.js';
 
 const TOP_KEYS = ['format', 'floor', 'runs', 'columns', 'model', 'fit', 'decode', 'out'];
@@ -21,13 +21,7 @@ export function parsePipeline(text: string, source: string): PipelineFile {
   const fail = (what: string): never => {
     throw new InputError(`${source}: ${what}`);
   };
-  let doc: unknown;
-  try {
-    doc = JSON.parse(text.charCodeAt(0) === 0xfeff ? text.slice(1) : text);
-  } catch {
-    const where = locateJsonError(text);
-    fail(`the pipeline file must be valid JSON, got ${where ? `${where.what} at line ${where.line}, column ${where.column}` : 'invalid JSON'}`);
-  }
+  const doc = parseJsonDocument(text, source, 'pipeline file');
   const root = object(doc, 'the pipeline file', fail);
   if (root.format !== PIPELINE_FORMAT) fail(`"format" must be ${quote(PIPELINE_FORMAT)}, got ${quote(root.format)}`);
   keys(root, TOP_KEYS, 'the pipeline file', fail);
