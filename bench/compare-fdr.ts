@@ -7,7 +7,6 @@
  *   npm run build && node dist/bench/compare-fdr.js [seeds] [emIterations] [priorStrength]
  */
 import { buildModel } from '../src/model/build-model.js';
-import { buildStructure } from '../src/model/build-structure.js';
 import { sampleRun } from '../src/model/sample-run.js';
 import { SeededRandom } from '../src/model/seeded-random.js';
 import { emIteration } from '../src/fit/em-iteration.js';
@@ -32,7 +31,6 @@ for (let y = 0; y < H; y++) {
     if (y + 1 < H) floor.links.push({ from: id(x, y), to: id(x, y + 1), oneway: false });
   }
 }
-void buildStructure;
 const m = surfaces.length;
 const n = floor.cells.length;
 

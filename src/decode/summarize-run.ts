@@ -27,8 +27,6 @@ export function summarizeRun(obs: Int32Array, dec: DecodedRun, th: DecodeThresho
   let surprising = 0;
   let sumP = 0;
   const impossible = dec.logLik === -Infinity;
-  let nReadings = 0;
-  for (let t = 0; t < T; t++) if (obs[t] >= 0) nReadings++;
   for (let t = 0; t < T; t++) {
     let f = 0;
     if (obs[t] < 0) {
@@ -49,6 +47,7 @@ export function summarizeRun(obs: Int32Array, dec: DecodedRun, th: DecodeThresho
     }
     flagsOut[t] = f;
   }
+  const nReadings = T - dropouts;
   return {
     steps: T,
     dropouts,

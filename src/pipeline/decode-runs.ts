@@ -63,7 +63,12 @@ export function decodeRuns(model: HmmModel, tables: RunsTable[], th: DecodeThres
   const inputColumns: OutputColumn[] = tables[0].columns.map((c, k): OutputColumn => {
     const get = tables.length === 1 ? (row: number) => c.get(row) : spanning(tables, k);
     // The step column read from CSV is text; it was checked to be whole numbers, so Arrow output stores integers.
-    if (c.name === tables[0].stepCol && c.kind === 'utf8') return { name: c.name, kind: 'int32', get: (row) => Number(get(row)) };
+    // Steps beyond the 32-bit range (e.g. millisecond timestamps used as steps) are stored as float64, exact to 2^53.
+    if (c.name === tables[0].stepCol && c.kind === 'utf8') {
+      let fits = true;
+      for (let row = 0; row < nRows && fits; row++) fits = Math.abs(Number(get(row))) <= 0x7fffffff;
+      return { name: c.name, kind: fits ? 'int32' : 'float64', get: (row) => Number(get(row)) };
+    }
     return { name: c.name, kind: 'passthrough', arrowType: c.arrowType, get };
   });
   const annotated: OutputTable = {

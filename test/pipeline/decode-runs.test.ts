@@ -1,0 +1,23 @@
+import { describe, it, expect } from 'vitest';
+import { decodeRuns } from '../../src/pipeline/decode-runs.js';
+import { runsFromCsv } from '../../src/io/parse-runs.js';
+import { tableToArrowBytes } from '../../src/io/table-to-arrow-bytes.js';
+import { buildModel } from '../../src/model/build-model.js';
+import { gridFloor } from '../helpers/grid-floor.js';
+import { tableFromIPC } from 'apache-arrow';
+
+const floor = gridFloor(2, 1, ['oak', 'tile'], (x) => x);
+
+describe('decodeRuns(model, tables)', () => {
+  it('keeps steps beyond the 32-bit range (millisecond timestamps) exact in Arrow output', () => {
+    const table = runsFromCsv('run,step,reading\nr1,1700000000000,oak\nr1,1700000000001,tile\n', 'runs.csv', { surfaces: floor.surfaces });
+    const out = decodeRuns(buildModel(floor), [table], { lowConfidence: 0.5, surprisingBits: 6 }, () => 'unseen');
+    const arrow = tableFromIPC(tableToArrowBytes(out.annotated, false));
+    expect(Array.from(arrow.getChild('step')!.toArray() as Float64Array)).toEqual([1700000000000, 1700000000001]);
+  });
+  it('stores small steps as 32-bit integers', () => {
+    const table = runsFromCsv('run,step,reading\nr1,0,oak\nr1,1,tile\n', 'runs.csv', { surfaces: floor.surfaces });
+    const out = decodeRuns(buildModel(floor), [table], { lowConfidence: 0.5, surprisingBits: 6 }, () => 'unseen');
+    expect(out.annotated.columns.find((c) => c.name === 'step')!.kind).toBe('int32');
+  });
+});
