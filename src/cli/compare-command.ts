@@ -1,9 +1,9 @@
 import type { Command } from 'commander';
 import { compareFromFiles, type CompareConfig, type CompareOutcome } from '../pipeline/compare-from-files.js';
-import { resolveFitOptions } from '../pipeline/resolve-fit-options.js';
-import { addKeyColumnOptions, addOutputOptions, keyColumnsFrom, numberOption } from './common-options.js';
+import { DEFAULT_NULL_DRAWS, resolveCompareOptions } from '../pipeline/resolve-compare-options.js';
+import { addKeyColumnOptions, addOutputOptions, keyColumnsFrom } from './common-options.js';
 import type { CliIo } from './cli-io.js';
-import { fitProgress } from './progress.js';
+import { compareProgress } from './progress.js';
 import { formatTable } from './format-table.js';
 
 /** Printed with every comparison. */
@@ -13,7 +13,7 @@ export const COMPARE_CAUTION =
 export function registerCompare(program: Command, io: CliIo): void {
   const cmd = program
     .command('compare')
-    .description('after flooring changes: re-fit from an old model on new runs and find which cells changed (experimental: p-values not yet calibrated)')
+    .description('after flooring changes: re-fit from an old model on new runs and find which cells changed (experimental: see DEVELOPERS.md)')
     .requiredOption('--model <file>', 'the old (calibrated) model')
     .requiredOption('--floor <file>', 'floor file the old model was made for')
     .requiredOption('--runs <files...>', 'runs recorded since the change')
@@ -22,19 +22,20 @@ export function registerCompare(program: Command, io: CliIo): void {
     .option('--write-floor <file>', 'write a floor file whose changed cells carry their new surface')
     .option('--fdr <q>', 'false-discovery rate across cells (Benjamini–Hochberg)', '0.05')
     .option('--min-readings <n>', 'cells with fewer expected readings are "too-few-readings"', '100')
+    .option('--null-draws <b>', 'copies of the new runs simulated under the old model to calibrate p-values; 0 = quick uncalibrated screen', String(DEFAULT_NULL_DRAWS))
     .option('--restarts <k>', 're-fit restarts (restart 1 starts from the old model)', '1')
     .option('--transitions <mode>', 'fixed | tied | learned for the re-fit', 'tied')
     .option('--hit <p>', 'survey prior: probability that a cell reads as its surveyed surface', '0.8')
     .option('--prior-strength <w>', 'pseudo-readings per cell behind the survey prior', '10')
     .option('--max-iter <n>', 'most EM iterations of the re-fit', '200')
     .option('--tol <x>', 'relative change of log-likelihood per reading that counts as converged', '1e-6')
-    .option('--seed <s>', 'seed for extra restarts', '1')
+    .option('--seed <s>', 'seed for extra restarts and the null draws', '1')
     .option('--workers <n>', 'worker threads (default: the number of cores)');
   addKeyColumnOptions(cmd);
   addOutputOptions(cmd);
   cmd.action(async (opts: Record<string, unknown>) => {
     const config = compareConfig(opts);
-    const progress = fitProgress(io, Boolean(opts.quiet));
+    const progress = compareProgress(io, Boolean(opts.quiet));
     let res: CompareOutcome;
     try {
       res = await compareFromFiles(config, progress.onProgress);
@@ -43,7 +44,7 @@ export function registerCompare(program: Command, io: CliIo): void {
     }
     for (const w of res.warnings) io.err(`warning: ${w}\n`);
     if (opts.json) {
-      io.out(JSON.stringify({ changed: res.nChanged, tested: res.nTested, tooFewReadings: res.nTooFew, beforePerReading: res.beforePerReading, afterPerReading: res.afterPerReading, changes: res.changes }) + '\n');
+      io.out(JSON.stringify({ changed: res.nChanged, tested: res.nTested, tooFewReadings: res.nTooFew, nullDraws: res.nullDraws, inflation: res.inflation, beforePerReading: res.beforePerReading, afterPerReading: res.afterPerReading, changes: res.changes }) + '\n');
       return;
     }
     io.out(formatCompareSummary(res, config));
@@ -52,7 +53,7 @@ export function registerCompare(program: Command, io: CliIo): void {
 
 /** Flags → checked compare config (pure). */
 export function compareConfig(opts: Record<string, unknown>): CompareConfig {
-  const { options, workers } = resolveFitOptions({ ...opts, holdout: 0, finalPass: false }, 'compare');
+  const { compare, fit, workers, nullDraws } = resolveCompareOptions(opts, 'compare');
   return {
     model: String(opts.model),
     floor: String(opts.floor),
@@ -60,12 +61,10 @@ export function compareConfig(opts: Record<string, unknown>): CompareConfig {
     out: String(opts.out),
     refit: opts.refit ? String(opts.refit) : null,
     writeFloor: opts.writeFloor ? String(opts.writeFloor) : null,
-    compare: {
-      fdr: numberOption(opts.fdr, 'compare', '--fdr', (x) => x > 0 && x < 1, 'a rate strictly between 0 and 1'),
-      minReadings: numberOption(opts.minReadings, 'compare', '--min-readings', (x) => x >= 0, 'a number ≥ 0'),
-    },
-    fit: options,
+    compare,
+    fit,
     workers,
+    nullDraws,
     keys: keyColumnsFrom(opts, 'compare'),
   };
 }
@@ -73,7 +72,9 @@ export function compareConfig(opts: Record<string, unknown>): CompareConfig {
 export function formatCompareSummary(res: CompareOutcome, config: Pick<CompareConfig, 'out' | 'refit' | 'writeFloor' | 'compare'>): string {
   const lines = [
     `${res.nChanged} of ${res.nTested} tested cells changed at false-discovery rate ${config.compare.fdr} (${res.nTooFew} cells had fewer than ${config.compare.minReadings} expected readings: not tested)`,
-    `G statistics divided by ${res.inflation.toFixed(2)} (median calibration: expected counts carry less information than plain counts)`,
+    res.nullDraws > 0
+      ? `p-values from ${res.nullDraws} copies of the new runs simulated under the old model (no change); median null scale ${res.inflation.toFixed(2)} × chi-square (expected counts carry less information than plain counts)`
+      : `quick screen (--null-draws 0): G statistics divided by ${res.inflation.toFixed(2)} (median calibration); p-values not calibrated`,
     `new runs: log-likelihood per reading ${res.beforePerReading.toFixed(4)} under the old model, ${res.afterPerReading.toFixed(4)} after re-fitting (shift ${(res.afterPerReading - res.beforePerReading >= 0 ? '+' : '') + (res.afterPerReading - res.beforePerReading).toFixed(4)})`,
   ];
   const strongest = res.changes.filter((c) => c.verdict === 'changed').slice(0, 10);

@@ -4,6 +4,7 @@ import { gHomogeneity } from './g-homogeneity.js';
 import { chiSquareSurvival } from './chi-square-survival.js';
 import { benjaminiHochberg } from './benjamini-hochberg.js';
 import { chiSquareMedian } from './chi-square-median.js';
+import { fSurvival } from './f-survival.js';
 
 export type CellVerdict = 'changed' | 'unchanged' | 'too-few-readings';
 
@@ -35,36 +36,67 @@ export interface CompareOptions {
    * λ = max(1, median_i G_i / median χ²(df_i)) before taking p-values. @default true
    */
   calibrate?: boolean;
+  /**
+   * Pseudo-readings per cell behind the old fit's prior: the old row rests on the old expected readings
+   * plus these (used with null draws to weigh the old row's own sampling error). @default 0
+   */
+  oldPriorStrength?: number;
 }
 
 /** The cells' verdicts and the calibration factor used. */
 export interface CellComparison {
   changes: CellChange[];
-  /** λ, the factor the G statistics were divided by (1 = none). */
+  /**
+   * Without null draws: λ, the factor the G statistics were divided by (1 = none). With null draws: the
+   * median over tested cells of the simulated null scale (mean null G per degree of freedom).
+   */
   inflation: number;
+  /** How many null draws calibrated the p-values (0: chi-square reference with median calibration). */
+  nullDraws: number;
 }
 
 /**
  * Per cell, whether its reading distribution changed, from expected reading counts (readings × cells,
- * `r * nCells + i`) of the new runs. With the old fit's own expected counts (`oldCountsT`, recorded in
- * model files as `fit.cellReadings`), a G test of homogeneity between the old and new counts, so the
- * old row's own sampling error is accounted for; without them, a G goodness-of-fit test of the new
- * counts against the old row. Chi-square p-values, then Benjamini–Hochberg across the tested cells.
- * Sorted by q-value; cells with too few readings last, by expected readings, descending.
+ * `r * nCells + i`) of the new runs.
+ *
+ * With null draws (`nullCountsT`: the same expected counts from copies of the new runs simulated under
+ * the old model and re-fitted the same way — a parametric bootstrap, Efron & Tibshirani, "An
+ * Introduction to the Bootstrap", 1993, ch. 6): per cell a G statistic — of homogeneity between the
+ * old fit's counts and the new counts when the model file recorded them, else of goodness of fit of
+ * the new counts against the old row — referred to its own simulated null distribution. Expected counts are not
+ * multinomial counts (readings are attributed to cells with uncertainty, and look-alike cells trade
+ * readings), so G runs larger than chi-square by a factor that differs from cell to cell; the draws
+ * measure that factor. Treating G as a scaled chi-square (Satterthwaite's approximation), the ratio of
+ * the observed G to the mean of B null Gs is F(df, B·df)-distributed under no change, which accounts
+ * for the scale being estimated from B draws. The old row's own sampling error is added in proportion
+ * to the readings behind it (same cell, same kind of runs, so the same loss of information): the null
+ * scale is multiplied by 1 + N_new / (N_old + w).
+ *
+ * Without null draws (a quick screen, not calibrated): a G test of homogeneity against the old fit's
+ * own expected counts (`oldCountsT`, recorded in model files as `fit.cellReadings`), or goodness of fit
+ * against the old row, with chi-square p-values after median calibration.
+ *
+ * Benjamini–Hochberg across the tested cells. Sorted by q-value; cells with too few readings last, by
+ * expected readings, descending.
  */
 export function compareCells(
   oldModel: HmmModel,
   oldCountsT: Float64Array | null,
   newCountsT: Float64Array,
   options: CompareOptions,
+  nullCountsT: readonly Float64Array[] = [],
 ): CellComparison {
   const n = oldModel.cells.length;
   const m = oldModel.surfaces.length;
+  const draws = nullCountsT.length;
+  const df = Math.max(1, m - 1);
   const rows: CellChange[] = [];
   const tested: number[] = [];
   const dfs: number[] = [];
+  const scales: number[] = [];
   const counts = new Float64Array(m);
   const before = new Float64Array(m);
+  const drawn = new Float64Array(m);
   for (let i = 0; i < n; i++) {
     let total = 0;
     for (let r = 0; r < m; r++) total += counts[r] = newCountsT[r * n + i];
@@ -83,31 +115,55 @@ export function compareCells(
       verdict: 'too-few-readings',
     };
     if (total >= options.minReadings) {
-      if (oldCountsT) {
-        for (let r = 0; r < m; r++) before[r] = oldCountsT[r * n + i];
-        const { g, df } = gHomogeneity(before, counts);
-        row.gStat = g;
+      if (draws > 0) {
+        // With the old fit's counts: G of homogeneity (old vs new counts; the pooled row keeps small
+        // old probabilities from blowing G up); without: G goodness of fit against the old row.
+        let oldTotal = Infinity;
+        if (oldCountsT) {
+          oldTotal = options.oldPriorStrength ?? 0;
+          for (let r = 0; r < m; r++) oldTotal += before[r] = oldCountsT[r * n + i];
+        }
+        const statistic = (c: Float64Array): number => (oldCountsT ? gHomogeneity(before, c).g : gStatistic(c, oldRow));
+        row.gStat = statistic(counts);
+        let nullSum = 0;
+        for (const t of nullCountsT) {
+          for (let r = 0; r < m; r++) drawn[r] = t[r * n + i];
+          nullSum += statistic(drawn);
+        }
+        // The draws vary only the new side; the old side's own error scales the null by 1 + N_new / N_old.
+        scales.push(((1 + (oldTotal > 0 ? total / oldTotal : Infinity)) * nullSum) / (draws * df));
         dfs.push(df);
+      } else if (oldCountsT) {
+        for (let r = 0; r < m; r++) before[r] = oldCountsT[r * n + i];
+        const { g, df: dfH } = gHomogeneity(before, counts);
+        row.gStat = g;
+        dfs.push(dfH);
       } else {
         row.gStat = gStatistic(counts, oldRow);
-        dfs.push(Math.max(1, m - 1));
+        dfs.push(df);
       }
       tested.push(rows.length);
     }
     rows.push(row);
   }
-  // Expected counts carry less information than plain counts of the same size (readings are attributed
-  // to cells with uncertainty), so G runs large even where nothing changed. Median calibration ("genomic
-  // control", Devlin & Roeder 1999, Biometrics 55(4)) rescales by how far the median G exceeds the median
-  // of its chi-square reference; it assumes most cells did not change, as after a refurbishment.
-  const ratios = tested.map((k, t) => rows[k].gStat! / chiSquareMedian(dfs[t])).filter(Number.isFinite).sort((a, b) => a - b);
-  const inflation =
-    options.calibrate !== false && ratios.length >= 5 ? Math.max(1, ratios.length % 2 ? ratios[(ratios.length - 1) / 2] : (ratios[ratios.length / 2 - 1] + ratios[ratios.length / 2]) / 2) : 1;
-  const pValues = tested.map((k, t) => {
-    const p = chiSquareSurvival(rows[k].gStat! / inflation, dfs[t]);
-    rows[k].pValue = p;
-    return p;
-  });
+  let inflation = 1;
+  let pValues: number[];
+  if (draws > 0) {
+    pValues = tested.map((k, t) => {
+      const g = rows[k].gStat!;
+      const scale = scales[t];
+      // F = (G / df) / (null scale); a zero null scale (no variation at all in the draws) leaves only G > 0 or not.
+      return scale > 0 && Number.isFinite(scale) ? fSurvival(g / (df * scale), df, draws * df) : scale === Infinity ? 1 : g > 0 ? 0 : 1;
+    });
+    inflation = median(scales.filter(Number.isFinite));
+  } else {
+    // Median calibration ("genomic control", Devlin & Roeder 1999, Biometrics 55(4)): rescales by how
+    // far the median G exceeds the median of its chi-square reference; assumes most cells did not change.
+    const ratios = tested.map((k, t) => rows[k].gStat! / chiSquareMedian(dfs[t])).filter(Number.isFinite);
+    inflation = options.calibrate !== false && ratios.length >= 5 ? Math.max(1, median(ratios)) : 1;
+    pValues = tested.map((k, t) => chiSquareSurvival(rows[k].gStat! / inflation, dfs[t]));
+  }
+  tested.forEach((k, t) => (rows[k].pValue = pValues[t]));
   const q = benjaminiHochberg(pValues);
   tested.forEach((k, t) => {
     rows[k].qValue = q[t];
@@ -121,7 +177,13 @@ export function compareCells(
     }
     return a.qValue - b.qValue || (b.gStat ?? 0) - (a.gStat ?? 0);
   });
-  return { changes: rows, inflation };
+  return { changes: rows, inflation, nullDraws: draws };
+}
+
+function median(xs: number[]): number {
+  if (xs.length === 0) return 1;
+  const s = xs.slice().sort((a, b) => a - b);
+  return s.length % 2 ? s[(s.length - 1) / 2] : (s[s.length / 2 - 1] + s[s.length / 2]) / 2;
 }
 
 function argmax(row: ArrayLike<number>): number {

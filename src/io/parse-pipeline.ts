@@ -3,19 +3,22 @@ import { InputError, quote } from '../errors.js';
 import { parseJsonDocument } from './parse-json-document.js';
 import { PIPELINE_FORMAT, type PipelineFile } from './pipeline-file.js';
 
-const TOP_KEYS = ['format', 'floor', 'runs', 'columns', 'model', 'fit', 'decode', 'out'];
+const TOP_KEYS = ['format', 'floor', 'runs', 'columns', 'model', 'fit', 'compare', 'decode', 'out'];
 const COLUMN_KEYS = ['run', 'step', 'reading', 'unknownReadings'];
 export const PIPELINE_FIT_KEYS = [
   'restarts', 'holdout', 'holdoutCol', 'seed', 'transitions', 'dwell', 'hit', 'priorStrength',
   'maxIter', 'tol', 'workers', 'finalPass', 'from',
 ];
+export const PIPELINE_COMPARE_KEYS = [
+  'fdr', 'minReadings', 'nullDraws', 'restarts', 'seed', 'transitions', 'hit', 'priorStrength', 'maxIter', 'tol', 'workers',
+];
 const DECODE_KEYS = ['lowConfidence', 'surprisingBits'];
-const OUT_KEYS = ['dir', 'model', 'annotated', 'summary', 'report'];
+const OUT_KEYS = ['dir', 'model', 'annotated', 'summary', 'report', 'changes', 'floor'];
 
 /**
  * Reads the text of a pipeline file. Unknown keys anywhere are errors (a typo must not be silently
  * ignored); paths are resolved relative to the pipeline file's folder (`out` names relative to `out.dir`).
- * Values of `fit` options are checked where they are used, with the same rules as the flags.
+ * Values of `fit` and `compare` options are checked where they are used, with the same rules as the flags.
  */
 export function parsePipeline(text: string, source: string): PipelineFile {
   const fail = (what: string): never => {
@@ -51,7 +54,14 @@ export function parsePipeline(text: string, source: string): PipelineFile {
     keys(fit, PIPELINE_FIT_KEYS, '"fit"', fail);
     if (typeof fit.from === 'string') fit.from = resolve(base, fit.from);
   }
+  let compare: Record<string, unknown> | null = null;
+  if (root.compare !== undefined) {
+    compare = { ...object(root.compare, '"compare"', fail) };
+    keys(compare, PIPELINE_COMPARE_KEYS, '"compare"', fail);
+  }
   if (fit && model) fail('"model" (decode with a saved model) and "fit" (calibrate a new one) must not both be given');
+  if (fit && compare) fail('"fit" (calibrate from the survey) and "compare" (re-fit an old model after flooring changes) must not both be given');
+  if (compare && !model) fail('"compare" must come with "model": the old model to re-fit and compare against');
   if (!fit && !model) fail('either "fit" (calibrate) or "model" (decode with a saved model) must be given');
   let decode: PipelineFile['decode'] = null;
   if (root.decode !== undefined) {
@@ -69,11 +79,17 @@ export function parsePipeline(text: string, source: string): PipelineFile {
     if (typeof v !== 'string' || !v) fail(`"out.${k}" must be a file name, got ${quote(v)}`);
     return resolve(dir, v as string);
   };
-  const out = { dir, model: name('model'), annotated: name('annotated'), summary: name('summary'), report: name('report') };
+  const out = { dir, model: name('model'), annotated: name('annotated'), summary: name('summary'), report: name('report'), changes: name('changes'), floor: name('floor') };
   if (fit && !out.model) fail('"out.model" must name the model file to write when the pipeline fits');
-  if (!out.annotated && !out.summary && !out.model && !out.report) fail('"out" must name at least one output (model, annotated, summary, report)');
+  if (compare && !out.changes) fail('"out.changes" must name the changes table to write when the pipeline compares');
+  if (compare && !out.model && (out.annotated || out.summary || out.report)) {
+    fail('"out.model" must name the re-fitted model file when a "compare" pipeline also decodes or reports (they use the re-fitted model)');
+  }
+  if (!compare && (out.changes || out.floor)) fail(`"out.${out.changes ? 'changes' : 'floor'}" is written by a "compare" section, and the pipeline has none`);
+  if (model && !fit && !compare && out.model) fail('"out.model" is written by "fit" or "compare", and the pipeline has neither');
+  if (!out.annotated && !out.summary && !out.model && !out.report && !out.changes) fail('"out" must name at least one output (model, annotated, summary, report, changes)');
   if (out.report && !/\.html?$/i.test(out.report)) fail(`"out.report" must be a file name ending in .html, got ${quote(o.report)}`);
-  return { source, floor, runs, columns, model, fit, decode, out };
+  return { source, floor, runs, columns, model, fit, compare, decode, out };
 }
 
 function object(v: unknown, where: string, fail: (w: string) => never): Record<string, unknown> {

@@ -9,9 +9,17 @@ export interface PipelineFile {
   model: string | null;
   /** Fit options in camelCase (`fit` flags), or null to skip fitting. */
   fit: Record<string, unknown> | null;
+  /**
+   * `compare` options in camelCase (`compare` flags; our addition): re-fit `model` on the runs after
+   * flooring changes and test which cells changed. Null when the pipeline does not compare.
+   */
+  compare: Record<string, unknown> | null;
   decode: { lowConfidence?: number; surprisingBits?: number } | null;
-  /** `report`: the HTML report (our addition), written last. */
-  out: { dir: string; model: string | null; annotated: string | null; summary: string | null; report: string | null };
+  /**
+   * `report`: the HTML report (our addition), written last. With `compare`: `model` is the re-fitted
+   * model, `changes` the changes table, `floor` the floor with the changed cells' new surfaces.
+   */
+  out: { dir: string; model: string | null; annotated: string | null; summary: string | null; report: string | null; changes: string | null; floor: string | null };
 }
 
 export const PIPELINE_FORMAT = 'underfoot-pipeline/1';

@@ -13,7 +13,7 @@ import type { HmmModel } from '../model/hmm-model.js';
 import type { FloorGraph } from '../model/floor-graph.js';
 import { forwardScore } from '../kernels/forward-score.js';
 import { fitModel, type FitProgress } from '../fit/fit-model.js';
-import { emIteration } from '../fit/em-iteration.js';
+import { drawNullRuns } from '../compare/draw-null-runs.js';
 import type { FitOptions } from '../fit/fit-record.js';
 import { compareCells, type CellChange, type CompareOptions } from '../compare/compare-cells.js';
 import type { KeyColumns } from './key-columns.js';
@@ -31,6 +31,8 @@ export interface CompareConfig {
   /** Options of the warm-started re-fit (restart 0 starts from the old model). */
   fit: FitOptions;
   workers: number;
+  /** Copies of the new runs simulated under the old model to calibrate the p-values (0: quick screen). */
+  nullDraws: number;
   keys: KeyColumns;
 }
 
@@ -51,8 +53,11 @@ export interface CompareOutcome {
   beforePerReading: number;
   afterPerReading: number;
   refit: ModelFile;
-  /** Calibration factor the G statistics were divided by. */
+  /** Median calibration factor (quick screen), or the median simulated null scale (with null draws). */
   inflation: number;
+  nullDraws: number;
+  /** The test's options as used. */
+  options: CompareOptions;
   newFloor: FloorGraph | null;
   warnings: string[];
 }
@@ -63,29 +68,43 @@ export interface CompareOutcome {
  * the re-fitted model, tests them against the old row (G test, Benjamini–Hochberg), and writes the
  * changes table, optionally the re-fitted model and a floor whose changed cells carry their new surface.
  */
-export async function compareFromFiles(config: CompareConfig, onProgress?: (p: FitProgress) => void): Promise<CompareOutcome> {
+/** Progress of the re-fit (`draw` 0) and of each null draw's re-fit (`draw` 1…`draws`). */
+export interface CompareProgress extends FitProgress {
+  draw: number;
+  draws: number;
+}
+
+export async function compareFromFiles(config: CompareConfig, onProgress?: (p: CompareProgress) => void): Promise<CompareOutcome> {
   const floor = await readFloor(config.floor);
   const old = await readModel(config.model);
   checkModelFloor(old.model, config.model, floor, config.floor);
   const loaded = await loadRuns(config.runs, { surfaces: floor.surfaces, ...config.keys });
   const options: FitOptions = { ...config.fit, fromDigest: await fileDigest(config.model) };
-  const { model: refit, record } = await fitModel(
-    {
-      floor,
-      runs: loaded.runs,
-      floorDigest: await fileDigest(config.floor),
-      runsDigests: loaded.digests,
-      warmStart: old.model,
-      prior: old.model.emission.slice(),
-    },
-    options,
-    config.workers,
-    onProgress,
-  );
+  const floorDigest = await fileDigest(config.floor);
+  // Each re-fit (of the new runs, then of every null draw) is the same procedure: EM warm-started from
+  // the old model, prior centred on the old rows; its expected readings are `fit.cellReadings`.
+  const refitOf = (runs: ReadonlyArray<{ id: string; obs: Int32Array }>, draw: number) =>
+    fitModel(
+      { floor, runs, floorDigest, runsDigests: loaded.digests, warmStart: old.model, prior: old.model.emission.slice() },
+      options,
+      config.workers,
+      onProgress ? (p) => onProgress({ ...p, draw, draws: config.nullDraws }) : undefined,
+    );
+  const { model: refit, record } = await refitOf(loaded.runs, 0);
   // Readings are attributed to cells by the RE-FITTED model: under the old model a changed cell's new
   // readings would be credited to look-alike neighbours and the change would hide itself.
-  const counts = emIteration(refit, loaded.runs, { mode: 'fixed', priorStrength: 0 }).counts;
-  const { changes, inflation } = compareCells(old.model, oldCountsT(old), counts.emitT, config.compare);
+  const nullCounts: Float64Array[] = [];
+  for (let b = 1; b <= config.nullDraws; b++) {
+    const drawn = drawNullRuns(old.model, loaded.runs, nullDrawSeed(options.seed, b));
+    nullCounts.push(countsT((await refitOf(drawn, b)).record.cellReadings ?? [], old.model.cells.length, old.model.surfaces.length));
+  }
+  const { changes, inflation } = compareCells(
+    old.model,
+    oldCountsT(old),
+    countsT(record.cellReadings ?? [], old.model.cells.length, old.model.surfaces.length),
+    { ...config.compare, oldPriorStrength: old.fit?.options?.priorStrength ?? 0 },
+    nullCounts,
+  );
   const runs = scoreShift(old.model, refit, loaded.runs);
   const readings = runs.reduce((s, r) => s + r.readings, 0);
   const before = runs.reduce((s, r) => s + r.before, 0) / Math.max(1, readings);
@@ -109,9 +128,23 @@ export async function compareFromFiles(config: CompareConfig, onProgress?: (p: F
     afterPerReading: after,
     refit: refitFile,
     inflation,
+    nullDraws: config.nullDraws,
+    options: config.compare,
     newFloor,
     warnings: loaded.warnings,
   };
+}
+
+/** Seed of null draw `b` (1-based), from the re-fit's seed. */
+function nullDrawSeed(seed: number, b: number): number {
+  return (Math.imul(seed + 1, 0x9e3779b1) + b) >>> 0;
+}
+
+/** Expected readings per cell (cells × readings, as recorded) → readings × cells. */
+function countsT(rows: number[][], n: number, m: number): Float64Array {
+  const t = new Float64Array(n * m);
+  rows.forEach((row, i) => row.forEach((v, r) => (t[r * n + i] = v)));
+  return t;
 }
 
 /** The old fit's expected readings (readings × cells), when the model file recorded them. */

@@ -8,20 +8,29 @@ import { resolveFitOptions } from './resolve-fit-options.js';
 import { fitFromFiles, type FitOutcome } from './fit-from-files.js';
 import { decodeFromFiles, type DecodeOutcome } from './decode-from-files.js';
 import { reportToFile } from './report-to-file.js';
+import { compareFromFiles, type CompareOutcome, type CompareProgress } from './compare-from-files.js';
+import { resolveCompareOptions } from './resolve-compare-options.js';
 import { InputError } from '../errors.js';
 
 export interface PipelineOutcome {
   fit: FitOutcome | null;
+  compare: CompareOutcome | null;
   decode: DecodeOutcome | null;
   written: string[];
   warnings: string[];
 }
 
 /**
- * `run PIPELINE.json`: read → fit (or load a saved model) → select → decode → write. Everything the
- * pipeline names is checked before any work starts, so a bad pipeline writes nothing.
+ * `run PIPELINE.json`: read → fit (or load a saved model, or re-fit it after flooring changes with
+ * `compare`) → select → decode → write. Everything the pipeline names is checked before any work
+ * starts, so a bad pipeline writes nothing. After `compare`, decoding and the report use the re-fitted
+ * model, and the report shows the changed cells.
  */
-export async function runPipeline(path: string, onProgress?: (p: FitProgress) => void, overrides: { workers?: number } = {}): Promise<PipelineOutcome> {
+export async function runPipeline(
+  path: string,
+  onProgress?: (p: FitProgress | CompareProgress) => void,
+  overrides: { workers?: number } = {},
+): Promise<PipelineOutcome> {
   const p = await readPipeline(path);
   const keys: KeyColumns = {
     runCol: p.columns.run ?? DEFAULT_KEY_COLUMNS.runCol,
@@ -30,6 +39,9 @@ export async function runPipeline(path: string, onProgress?: (p: FitProgress) =>
     unknownReadings: p.columns.unknownReadings ?? 'error',
   };
   const fitOpts = p.fit ? resolveFitOptions({ ...p.fit, ...(overrides.workers ? { workers: overrides.workers } : {}) }, p.source, (k) => `"fit.${k}"`) : null;
+  const compareOpts = p.compare
+    ? resolveCompareOptions({ ...p.compare, ...(overrides.workers ? { workers: overrides.workers } : {}) }, p.source, (k) => `"compare.${k}"`)
+    : null;
   await checkReadable(p.floor, 'floor file');
   for (const r of p.runs) await checkReadable(r, 'runs table');
   if (p.model) await checkReadable(p.model, 'model file');
@@ -49,12 +61,38 @@ export async function runPipeline(path: string, onProgress?: (p: FitProgress) =>
     written.push(p.out.model!);
     warnings.push(...fit.warnings);
   }
+  let compare: CompareOutcome | null = null;
+  if (compareOpts) {
+    compare = await compareFromFiles(
+      {
+        model: p.model!,
+        floor: p.floor,
+        runs: p.runs,
+        out: p.out.changes!,
+        refit: p.out.model,
+        writeFloor: p.out.floor,
+        compare: compareOpts.compare,
+        fit: compareOpts.fit,
+        workers: compareOpts.workers,
+        nullDraws: compareOpts.nullDraws,
+        keys,
+      },
+      onProgress,
+    );
+    written.push(p.out.changes!);
+    if (p.out.model) written.push(p.out.model);
+    if (p.out.floor) written.push(p.out.floor);
+    warnings.push(...compare.warnings);
+  }
+  // The model to decode with and report on: the one just fitted or re-fitted (and written), else the saved one.
+  const usedModel = fit ? fit.file : compare ? compare.refit : null;
+  const usedPath = usedModel ? p.out.model! : p.model!;
   let decode: DecodeOutcome | null = null;
   if (p.out.annotated || p.out.summary) {
-    const model = fit ? fit.file : await readModel(p.model!);
+    const model = usedModel ?? (await readModel(p.model!));
     const annotated = p.out.annotated;
     decode = await decodeFromFiles(
-      { model: fit ? p.out.model! : p.model!, floor: p.floor, runs: p.runs, out: annotated ?? '', summary: p.out.summary, thresholds, keys },
+      { model: usedPath, floor: p.floor, runs: p.runs, out: annotated ?? '', summary: p.out.summary, thresholds, keys },
       model,
       annotated === null,
     );
@@ -64,11 +102,11 @@ export async function runPipeline(path: string, onProgress?: (p: FitProgress) =>
   }
   if (p.out.report) {
     const report = await reportToFile(
-      { model: fit ? p.out.model! : p.model!, floor: p.floor, annotated: p.out.annotated, summary: p.out.summary, changes: null, out: p.out.report, keys, ambiguity: {} },
-      fit ? fit.file : undefined,
+      { model: usedPath, floor: p.floor, annotated: p.out.annotated, summary: p.out.summary, changes: p.out.changes, out: p.out.report, keys, ambiguity: {} },
+      usedModel ?? undefined,
     );
     written.push(p.out.report);
     warnings.push(...report.warnings.filter((w) => !warnings.includes(w)));
   }
-  return { fit, decode, written, warnings };
+  return { fit, compare, decode, written, warnings };
 }

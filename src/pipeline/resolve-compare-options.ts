@@ -1,0 +1,45 @@
+import { InputError, quote } from '../errors.js';
+import type { CompareOptions } from '../compare/compare-cells.js';
+import type { FitOptions } from '../fit/fit-record.js';
+import { resolveFitOptions, type RawFitOptions } from './resolve-fit-options.js';
+
+/** Default number of simulated copies of the new runs that calibrate `compare`'s p-values. */
+export const DEFAULT_NULL_DRAWS = 10;
+
+/** Checked options of `compare`: the test, the warm-started re-fit, and its null draws. */
+export interface ResolvedCompareOptions {
+  compare: CompareOptions;
+  fit: FitOptions;
+  workers: number;
+  /** Simulated copies of the new runs under the old model (parametric bootstrap); 0 = quick screen. */
+  nullDraws: number;
+}
+
+/**
+ * Raw `compare` options (flags as strings, or a pipeline's `compare` section as JSON values, camelCase
+ * keys) → checked options. The re-fit holds nothing out and has no final pass: restart 0 starts from
+ * the old model. `where` and `flag` render messages as for `resolveFitOptions`.
+ */
+export function resolveCompareOptions(
+  raw: RawFitOptions,
+  where: string,
+  flag: (key: string) => string = (k) => `--${k.replace(/[A-Z]/g, (c) => '-' + c.toLowerCase())}`,
+): ResolvedCompareOptions {
+  const { options, workers } = resolveFitOptions({ restarts: 1, ...raw, holdout: 0, finalPass: false }, where, flag);
+  const num = (key: string, def: number, ok: (x: number) => boolean, requirement: string): number => {
+    const v = raw[key];
+    if (v === undefined || v === null) return def;
+    const x = typeof v === 'number' ? v : typeof v === 'string' && v.trim() !== '' ? Number(v) : NaN;
+    if (!Number.isFinite(x) || !ok(x)) throw new InputError(`${where}: ${flag(key)} must be ${requirement}, got ${quote(v)}`);
+    return x;
+  };
+  return {
+    compare: {
+      fdr: num('fdr', 0.05, (x) => x > 0 && x < 1, 'a rate strictly between 0 and 1'),
+      minReadings: num('minReadings', 100, (x) => x >= 0, 'a number ≥ 0'),
+    },
+    fit: options,
+    workers,
+    nullDraws: num('nullDraws', DEFAULT_NULL_DRAWS, (x) => Number.isInteger(x) && x >= 0 && x <= 1000, 'a whole number from 0 to 1000'),
+  };
+}
