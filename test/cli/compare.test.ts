@@ -26,17 +26,18 @@ describe('compare', () => {
   it('writes the changes table, the re-fitted model and an updated floor, and prints a caution', () => {
     const r = runCli([
       'compare', '--model', p('old-model.json'), '--floor', p('floor.json'), '--runs', p('new.csv'), '--out', p('changes.csv'),
-      '--refit', p('refit.json'), '--write-floor', p('floor-after.json'), '--workers', '1', '--quiet',
+      '--refit', p('refit.json'), '--write-floor', p('floor-after.json'), '--workers', '1', '--null-draws', '3', '--quiet',
     ]);
     expect(r.code, r.stderr).toBe(0);
     expect(r.stdout).toContain('not an inspection');
+    expect(r.stdout).toContain('p-values from 3 copies of the new runs simulated under the old model');
     expect(r.stdout).toMatch(/log-likelihood per reading -?\d/);
     const t = parseCsv(readFileSync(p('changes.csv'), 'utf8'), 'changes.csv');
     expect(t.header).toEqual(['cell', 'surface_before', 'surface_after', 'expected_readings', 'tv_distance', 'g_stat', 'p_value', 'q_value', 'verdict']);
     expect(t.nRows).toBe(12);
     const verdicts = t.columns[8].toArray();
-    // Calibration of the verdicts under "nothing changed" is measured by bench/compare-fdr.ts, not
-    // asserted here: it does not yet meet its target (issue 5 stays open; see DEVELOPERS.md).
+    // The calibration of the p-values is a property test (test/compare/null-calibration.test.ts); what
+    // the re-fit can attribute on a floor like this is measured by bench/compare-fdr.ts (DEVELOPERS.md).
     expect(verdicts.every((v) => v === 'changed' || v === 'unchanged' || v === 'too-few-readings')).toBe(true);
     // Sorted by q-value, untested cells last.
     const q = t.columns[7].toArray().map((v) => (v === null ? Infinity : Number(v)));
@@ -46,6 +47,46 @@ describe('compare', () => {
     expect(refit.fit?.options.fromDigest).toMatch(/^sha256:[0-9a-f]{64}$/);
     const after = parseFloor(readFileSync(p('floor-after.json'), 'utf8'), 'floor-after.json');
     expect(after.cells.map((c) => c.id)).toEqual(floor.cells.map((c) => c.id));
+  });
+
+  it('the same options with the same seed give the same changes table (null draws are seeded)', () => {
+    const args = (out: string) => ['compare', '--model', p('old-model.json'), '--floor', p('floor.json'), '--runs', p('new.csv'), '--out', p(out), '--null-draws', '2', '--seed', '5', '--quiet'];
+    expect(runCli([...args('c1.csv'), '--workers', '1']).code).toBe(0);
+    expect(runCli([...args('c2.csv'), '--workers', '2']).code).toBe(0);
+    expect(readFileSync(p('c2.csv'), 'utf8')).toBe(readFileSync(p('c1.csv'), 'utf8'));
+  });
+
+  it('a bad --null-draws is one clear line, exit 2', () => {
+    const r = runCli(['compare', '--model', p('old-model.json'), '--floor', p('floor.json'), '--runs', p('new.csv'), '--out', p('x.csv'), '--null-draws', '2.5']);
+    expect(r.code).toBe(2);
+    expect(r.stderr.trimEnd().split('\n')).toHaveLength(1);
+    expect(r.stderr).toContain('--null-draws must be a whole number');
+  });
+
+  it('a pipeline with a compare section re-fits, writes the changes, the re-fit, the new floor, decodes with the re-fit and reports', () => {
+    writeFileSync(
+      p('refit-pipeline.json'),
+      JSON.stringify({
+        format: 'underfoot-pipeline/1',
+        floor: 'floor.json',
+        runs: ['new.csv'],
+        model: 'old-model.json',
+        compare: { nullDraws: 2, workers: 1, fdr: 0.1 },
+        out: { dir: 'refit-out', changes: 'changes.csv', model: 'model.json', floor: 'floor.json', summary: 'runs.csv', report: 'report.html' },
+      }),
+    );
+    const r = runCli(['run', p('refit-pipeline.json'), '--quiet']);
+    expect(r.code, r.stderr).toBe(0);
+    expect(r.stdout).toContain('tested cells changed at false-discovery rate 0.1');
+    expect(r.stdout).toContain('not an inspection');
+    const t = parseCsv(readFileSync(p('refit-out/changes.csv'), 'utf8'), 'changes.csv');
+    expect(t.nRows).toBe(12);
+    const refit = parseModel(readFileSync(p('refit-out/model.json'), 'utf8'), 'model.json');
+    expect(refit.fit?.options.fromDigest).toMatch(/^sha256:/);
+    const summary = parseCsv(readFileSync(p('refit-out/runs.csv'), 'utf8'), 'runs.csv');
+    expect(summary.nRows).toBe(30);
+    expect(readFileSync(p('refit-out/report.html'), 'utf8')).toContain('<html');
+    parseFloor(readFileSync(p('refit-out/floor.json'), 'utf8'), 'floor.json');
   });
 
   it('a model made for another floor is one clear line, exit 2', () => {
