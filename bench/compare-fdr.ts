@@ -14,6 +14,10 @@ import { SeededRandom } from '../src/model/seeded-random.js';
 import { emIteration } from '../src/fit/em-iteration.js';
 import { compareCells } from '../src/compare/compare-cells.js';
 import { drawNullRuns } from '../src/compare/draw-null-runs.js';
+import { searchRefit, DEFAULT_REFIT_SEARCH } from '../src/compare/search-refit.js';
+import { packRuns } from '../src/fit/packed-runs.js';
+import { LocalEngine } from '../src/fit/local-engine.js';
+import { reduceBlocks } from '../src/fit/reduce-blocks.js';
 import type { HmmModel } from '../src/model/hmm-model.js';
 import type { FloorGraph } from '../src/model/floor-graph.js';
 
@@ -56,7 +60,7 @@ function neighbours(i: number): number[] {
   return floor.links.flatMap((l) => (l.from === cid ? [l.to] : l.to === cid ? [l.from] : [])).map((x) => floor.cells.findIndex((c) => c.id === x));
 }
 
-function trial(seed: number, k: number) {
+async function trial(seed: number, k: number) {
   const truth = buildModel(floor, { dwell: 0.6, hit: 0.85 });
   const rng = new SeededRandom(seed);
   for (let i = 0; i < n; i++) {
@@ -79,32 +83,23 @@ function trial(seed: number, k: number) {
   for (let it = 0; it < iterations; it++) calibrated = emIteration(calibrated, oldRuns, { mode: 'fixed', priorStrength: 10, prior: survey }).model;
   const oldCounts = emIteration(calibrated, oldRuns, { mode: 'fixed', priorStrength: 0 }).counts.emitT;
   const newRuns = simulate(after, seed + 2);
-  // Re-fit candidates: plain EM from the old model, and EM after a phase whose E-step treats each
-  // reading as uninformative with probability ε (ROBUST=ε1,ε2,… with ROBUST_ITER iterations each);
-  // the candidate with the highest objective (log-likelihood + log prior) is kept.
-  const robustEps = (process.env.ROBUST ?? '').split(',').filter(Boolean).map(Number);
-  const robustIter = Number(process.env.ROBUST_ITER ?? 60);
-  const refitCounts = (runs: Array<{ id: string; obs: Int32Array }>) => {
-    const opts = { mode: 'fixed' as const, priorStrength, prior: calibrated.emission };
-    let best: { model: HmmModel; objective: number } | null = null;
-    for (const eps of [0, ...robustEps]) {
-      let model: HmmModel = calibrated;
-      for (let it = 0; it < (eps > 0 ? robustIter : 0); it++) {
-        model = emIteration({ ...model, emission: model.emission.map((b) => (1 - eps) * b + eps / m) }, runs, opts).model;
-      }
-      for (let it = 0; it < iterations; it++) model = emIteration(model, runs, opts).model;
-      const objective = emIteration(model, runs, opts).objective;
-      if (!best || objective > best.objective) best = { model, objective };
-    }
-    let refit = best!.model;
-    if (process.env.SWAP) refit = swapSearch(calibrated, refit, runs, Number(process.env.SWAP));
-    return { refit, counts: emIteration(refit, runs, { mode: 'fixed', priorStrength: 0 }).counts.emitT };
+  // The re-fit is compare's own search (src/compare/search-refit.ts), in one thread.
+  const refitCounts = async (runs: Array<{ id: string; obs: Int32Array }>) => {
+    const packed = packRuns(runs);
+    const blocks = Array.from({ length: Math.ceil(runs.length / 8) }, (_, b) => Array.from({ length: Math.min(8, runs.length - 8 * b) }, (_, k) => 8 * b + k));
+    const engine = new LocalEngine(packed, { mode: 'fixed' });
+    const found = await searchRefit(engine, packed, blocks, calibrated, {
+      ...DEFAULT_REFIT_SEARCH,
+      ...(process.env.ROBUST !== undefined ? { robust: process.env.ROBUST.split(',').filter(Boolean).map(Number) } : {}),
+      ...(process.env.SWAP !== undefined ? { swapRounds: Number(process.env.SWAP) } : {}),
+      loop: { mode: 'fixed', priorStrength, prior: calibrated.emission, maxIter: iterations, tol: 1e-7 },
+    });
+    return { refit: found.model, counts: reduceBlocks(found.model, packed, await engine.counts(found.model, blocks)).emitT };
   };
-  const { refit, counts: newCounts } = refitCounts(newRuns);
-  const draws = Array.from({ length: nullDraws }, (_, b) => refitCounts(drawNullRuns(calibrated, newRuns, seed * 1000 + b)).counts);
-  const res = process.env.PROFILE
-    ? profileCompare(calibrated, refit, newRuns, newCounts, Number(process.env.PROFILE))
-    : compareCells(calibrated, oldCounts, newCounts, { fdr: 0.05, minReadings: 100, oldPriorStrength: 10 }, draws);
+  const { refit, counts: newCounts } = await refitCounts(newRuns);
+  const draws: Float64Array[] = [];
+  for (let b = 0; b < nullDraws; b++) draws.push((await refitCounts(drawNullRuns(calibrated, newRuns, seed * 1000 + b))).counts);
+  const res = compareCells(calibrated, oldCounts, newCounts, { fdr: 0.05, minReadings: 100, oldPriorStrength: 10 }, draws);
   const byId = new Map(floor.cells.map((c, i) => [c.id, i]));
   // How far the re-fit is from the optimum EM finds when started from the true changed model (a
   // re-fit stuck in a worse local optimum cannot attribute the change to the right cells).
@@ -143,104 +138,10 @@ function trial(seed: number, k: number) {
   return { discoveries, falseDiscoveries, adjacentFalse, found, testable, inflation: res.inflation, gap };
 }
 
-import { chainFromModel } from '../src/model/chain-from-model.js';
-import { forwardScore } from '../src/kernels/forward-score.js';
-import { chiSquareSurvival } from '../src/compare/chi-square-survival.js';
-import { benjaminiHochberg } from '../src/compare/benjamini-hochberg.js';
-function logLik(model: HmmModel, runs: Array<{ obs: Int32Array }>): number {
-  const c = chainFromModel(model);
-  const w = new Float64Array(2 * n);
-  return runs.reduce((s, r) => s + forwardScore(c, r.obs, r.obs.length, w), 0);
-}
-/** Profile likelihood ratio per cell: row i held at the old row, other rows re-optimised for `k` EM steps from the re-fit. */
-function profileCompare(old: HmmModel, refit: HmmModel, runs: Array<{ id: string; obs: Int32Array }>, newCounts: Float64Array, k: number) {
-  const base = logLik(refit, runs);
-  const tested: number[] = [];
-  const p: number[] = [];
-  const changes = floor.cells.map((c, i) => {
-    let t = 0;
-    for (let r = 0; r < m; r++) t += newCounts[r * n + i];
-    return { cell: c.id, expectedReadings: t, verdict: 'too-few-readings' as string };
-  });
-  for (let i = 0; i < n; i++) {
-    if (changes[i].expectedReadings < 100) continue;
-    let model: HmmModel = { ...refit, emission: refit.emission.slice() };
-    for (let r = 0; r < m; r++) model.emission[i * m + r] = old.emission[i * m + r];
-    for (let it = 0; it < k; it++) {
-      const next = emIteration(model, runs, { mode: 'fixed', priorStrength: 0 }).model;
-      for (let r = 0; r < m; r++) next.emission[i * m + r] = old.emission[i * m + r];
-      model = next;
-    }
-    const lr = Math.max(0, 2 * (base - logLik(model, runs)));
-    tested.push(i);
-    p.push(chiSquareSurvival(lr, m - 1));
-  }
-  const q = benjaminiHochberg(p);
-  tested.forEach((i, t) => (changes[i].verdict = q[t] <= 0.05 ? 'changed' : 'unchanged'));
-  return { changes, inflation: 1 };
-}
-
-function ball(i: number, radius: number): number[] {
-  let frontier = [i];
-  const seen = new Set([i]);
-  for (let d = 0; d < radius; d++) frontier = frontier.flatMap(neighbours).filter((j) => !seen.has(j) && (seen.add(j), true));
-  return [...seen];
-}
-
-/**
- * Moves a detected change to a look-alike cell nearby: for every cell whose re-fitted row moved far
- * from its old row, try giving its new row to each nearby cell that read the same in the old model
- * (and the old row back to it); a short EM scores each proposal; the best is kept when it raises the
- * objective. Repeats while something improves.
- */
-function swapSearch(old: HmmModel, start: HmmModel, runs: Array<{ id: string; obs: Int32Array }>, rounds: number): HmmModel {
-  const opts = { mode: 'fixed' as const, priorStrength, prior: old.emission };
-  const em = (model: HmmModel, its: number) => {
-    for (let it = 0; it < its; it++) model = emIteration(model, runs, opts).model;
-    return model;
-  };
-  const objective = (model: HmmModel) => emIteration(model, runs, opts).objective;
-  const top = (e: Float64Array, i: number) => {
-    let t = 0;
-    for (let r = 1; r < m; r++) if (e[i * m + r] > e[i * m + t]) t = r;
-    return t;
-  };
-  const tv = (a: Float64Array, b: Float64Array, i: number) => {
-    let d = 0;
-    for (let r = 0; r < m; r++) d += Math.abs(a[i * m + r] - b[i * m + r]) / 2;
-    return d;
-  };
-  let best = start;
-  let bestObj = objective(start);
-  for (let round = 0; round < rounds; round++) {
-    const movers = Array.from({ length: n }, (_, i) => i).filter((i) => tv(best.emission, old.emission, i) > 0.3);
-    const tried: Array<{ model: HmmModel; obj: number; what: string }> = [];
-    for (const d of movers) {
-      for (const j of ball(d, 3)) {
-        if (j === d || movers.includes(j) || top(old.emission, j) !== top(old.emission, d)) continue;
-        const e = best.emission.slice();
-        e.set(old.emission.subarray(d * m, (d + 1) * m), d * m);
-        e.set(best.emission.subarray(d * m, (d + 1) * m), j * m);
-        const model = em({ ...best, emission: e }, 20);
-        tried.push({ model, obj: objective(model), what: `${floor.cells[d].id} -> ${floor.cells[j].id}` });
-      }
-    }
-    tried.sort((a, b) => b.obj - a.obj);
-    if (!tried.length) break;
-    const model = em(tried[0].model, iterations);
-    const obj = objective(model);
-    if (process.env.DEBUG) console.log(`swap round ${round}: ${tried.length} proposals, best ${tried[0].what}: objective ${bestObj.toFixed(1)} -> ${obj.toFixed(1)}`);
-    if (!(obj > bestObj + 0.5)) break;
-    best = model;
-    bestObj = obj;
-  }
-  return best;
-}
-
 const seeds = Array.from({ length: nSeeds }, (_, s) => 101 + 7 * s);
 let fdp = 0, found = 0, testable = 0, adjacent = 0, falseTotal = 0, nullFlagged = 0, lambda = 0, gap = 0;
 for (const seed of seeds) {
-  const t = trial(seed, 3);
+  const t = await trial(seed, 3);
   fdp += t.falseDiscoveries / Math.max(1, t.discoveries);
   found += t.found;
   testable += t.testable;
@@ -248,7 +149,7 @@ for (const seed of seeds) {
   falseTotal += t.falseDiscoveries;
   lambda += t.inflation;
   gap += t.gap;
-  nullFlagged += trial(seed, 0).discoveries;
+  nullFlagged += (await trial(seed, 0)).discoveries;
 }
 console.log(`compare on simulated refurbishments (${layout} floor): ${nSeeds} seeds, ${n} cells, 3 changed, ${iterations} EM iterations, prior strength ${priorStrength}, ${nullDraws} null draws`);
 console.log(`mean false-discovery proportion ${(fdp / nSeeds).toFixed(3)} (nominal 0.05); false discoveries next to a changed cell: ${adjacent} of ${falseTotal}`);

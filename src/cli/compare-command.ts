@@ -1,6 +1,7 @@
 import type { Command } from 'commander';
 import { compareFromFiles, type CompareConfig, type CompareOutcome } from '../pipeline/compare-from-files.js';
 import { DEFAULT_NULL_DRAWS, resolveCompareOptions } from '../pipeline/resolve-compare-options.js';
+import { DEFAULT_REFIT_SEARCH } from '../compare/search-refit.js';
 import { addKeyColumnOptions, addOutputOptions, keyColumnsFrom } from './common-options.js';
 import type { CliIo } from './cli-io.js';
 import { compareProgress } from './progress.js';
@@ -23,13 +24,13 @@ export function registerCompare(program: Command, io: CliIo): void {
     .option('--fdr <q>', 'false-discovery rate across cells (Benjamini–Hochberg)', '0.05')
     .option('--min-readings <n>', 'cells with fewer expected readings are "too-few-readings"', '100')
     .option('--null-draws <b>', 'copies of the new runs simulated under the old model to calibrate p-values; 0 = quick uncalibrated screen', String(DEFAULT_NULL_DRAWS))
-    .option('--restarts <k>', 're-fit restarts (restart 1 starts from the old model)', '1')
+    .option('--robust <eps>', 'extra starts of the re-fit: for each ε, EM whose readings are uninformative with probability ε, then plain EM; "none" for the plain warm start only', DEFAULT_REFIT_SEARCH.robust.join(','))
+    .option('--swap-rounds <n>', 'rounds of moving a detected change to a look-alike cell nearby when that fits better (0 = none)', String(DEFAULT_REFIT_SEARCH.swapRounds))
     .option('--transitions <mode>', 'fixed | tied | learned for the re-fit', 'tied')
-    .option('--hit <p>', 'survey prior: probability that a cell reads as its surveyed surface', '0.8')
-    .option('--prior-strength <w>', 'pseudo-readings per cell behind the survey prior', '10')
+    .option('--prior-strength <w>', 'pseudo-readings per cell pulling the re-fit towards the old rows', '10')
     .option('--max-iter <n>', 'most EM iterations of the re-fit', '200')
     .option('--tol <x>', 'relative change of log-likelihood per reading that counts as converged', '1e-6')
-    .option('--seed <s>', 'seed for extra restarts and the null draws', '1')
+    .option('--seed <s>', 'seed of the null draws', '1')
     .option('--workers <n>', 'worker threads (default: the number of cores)');
   addKeyColumnOptions(cmd);
   addOutputOptions(cmd);
@@ -53,7 +54,7 @@ export function registerCompare(program: Command, io: CliIo): void {
 
 /** Flags → checked compare config (pure). */
 export function compareConfig(opts: Record<string, unknown>): CompareConfig {
-  const { compare, fit, workers, nullDraws } = resolveCompareOptions(opts, 'compare');
+  const { compare, fit, workers, nullDraws, search } = resolveCompareOptions(opts, 'compare');
   return {
     model: String(opts.model),
     floor: String(opts.floor),
@@ -65,6 +66,7 @@ export function compareConfig(opts: Record<string, unknown>): CompareConfig {
     fit,
     workers,
     nullDraws,
+    search,
     keys: keyColumnsFrom(opts, 'compare'),
   };
 }

@@ -36,13 +36,14 @@ export function compareProgress(io: CliIo, quiet: boolean): { onProgress?: (p: C
       if (now - last < 100 && p.iteration !== 0) return;
       last = now;
       drawn = true;
-      const what = !('draw' in p)
-        ? p.phase === 'restart'
-          ? `restart ${p.restart + 1} of ${p.restarts}`
-          : `final pass (restart ${p.restart + 1}, all runs)`
-        : p.draw === 0
-          ? 're-fit of the new runs'
-          : `null draw ${p.draw} of ${p.draws} (simulated, no change)`;
+      let what: string;
+      if (!('draw' in p)) {
+        what = p.phase === 'restart' ? `restart ${p.restart + 1} of ${p.restarts}` : `final pass (restart ${p.restart + 1}, all runs)`;
+      } else {
+        const data = p.draw === 0 ? 're-fit of the new runs' : `null draw ${p.draw} of ${p.draws} (simulated, no change)`;
+        const stage = p.stage === 'plain' ? 'warm start' : p.stage === 'robust' ? `robust start ε ${p.robust}` : 'swap search';
+        what = `${data} · ${stage}`;
+      }
       io.err(`\r\x1b[2K${what} · iteration ${p.iteration} · objective ${p.objectivePerReading.toFixed(6)} per reading`);
     },
     done: () => {

@@ -10,7 +10,7 @@ export const PIPELINE_FIT_KEYS = [
   'maxIter', 'tol', 'workers', 'finalPass', 'from',
 ];
 export const PIPELINE_COMPARE_KEYS = [
-  'fdr', 'minReadings', 'nullDraws', 'restarts', 'seed', 'transitions', 'hit', 'priorStrength', 'maxIter', 'tol', 'workers',
+  'fdr', 'minReadings', 'nullDraws', 'robust', 'swapRounds', 'seed', 'transitions', 'priorStrength', 'maxIter', 'tol', 'workers',
 ];
 const DECODE_KEYS = ['lowConfidence', 'surprisingBits'];
 const OUT_KEYS = ['dir', 'model', 'annotated', 'summary', 'report', 'changes', 'floor'];

@@ -12,9 +12,17 @@ import { chainFromModel } from '../model/chain-from-model.js';
 import type { HmmModel } from '../model/hmm-model.js';
 import type { FloorGraph } from '../model/floor-graph.js';
 import { forwardScore } from '../kernels/forward-score.js';
-import { fitModel, type FitProgress } from '../fit/fit-model.js';
 import { drawNullRuns } from '../compare/draw-null-runs.js';
-import type { FitOptions } from '../fit/fit-record.js';
+import type { FitOptions, FitRecord, LoopRecord } from '../fit/fit-record.js';
+import { packRuns } from '../fit/packed-runs.js';
+import { reduceBlocks } from '../fit/reduce-blocks.js';
+import type { EStepEngine } from '../fit/e-step-engine.js';
+import { LocalEngine } from '../fit/local-engine.js';
+import { PoolEngine } from '../fit/pool-engine.js';
+import type { EmLoopResult } from '../fit/em-loop.js';
+import { intoFamily } from '../model/into-family.js';
+import { searchRefit, type RefitSearchOptions, type RefitSearchProgress, type RefitSearchResult } from '../compare/search-refit.js';
+import { TOOL_VERSION } from '../version.js';
 import { compareCells, type CellChange, type CompareOptions } from '../compare/compare-cells.js';
 import type { KeyColumns } from './key-columns.js';
 import { loadRuns } from './load-runs.js';
@@ -28,8 +36,10 @@ export interface CompareConfig {
   refit: string | null;
   writeFloor: string | null;
   compare: CompareOptions;
-  /** Options of the warm-started re-fit (restart 0 starts from the old model). */
+  /** Options of the re-fit (transitions, prior strength, iteration limit, tolerance, seed of the null draws). */
   fit: FitOptions;
+  /** How the re-fit is searched for (candidate starts, swap search). */
+  search: Omit<RefitSearchOptions, 'loop'>;
   workers: number;
   /** Copies of the new runs simulated under the old model to calibrate the p-values (0: quick screen). */
   nullDraws: number;
@@ -69,7 +79,7 @@ export interface CompareOutcome {
  * changes table, optionally the re-fitted model and a floor whose changed cells carry their new surface.
  */
 /** Progress of the re-fit (`draw` 0) and of each null draw's re-fit (`draw` 1…`draws`). */
-export interface CompareProgress extends FitProgress {
+export interface CompareProgress extends RefitSearchProgress {
   draw: number;
   draws: number;
 }
@@ -81,30 +91,48 @@ export async function compareFromFiles(config: CompareConfig, onProgress?: (p: C
   const loaded = await loadRuns(config.runs, { surfaces: floor.surfaces, ...config.keys });
   const options: FitOptions = { ...config.fit, fromDigest: await fileDigest(config.model) };
   const floorDigest = await fileDigest(config.floor);
-  // Each re-fit (of the new runs, then of every null draw) is the same procedure: EM warm-started from
-  // the old model, prior centred on the old rows; its expected readings are `fit.cellReadings`.
-  const refitOf = (runs: ReadonlyArray<{ id: string; obs: Int32Array }>, draw: number) =>
-    fitModel(
-      { floor, runs, floorDigest, runsDigests: loaded.digests, warmStart: old.model, prior: old.model.emission.slice() },
-      options,
-      config.workers,
-      onProgress ? (p) => onProgress({ ...p, draw, draws: config.nullDraws }) : undefined,
-    );
-  const { model: refit, record } = await refitOf(loaded.runs, 0);
-  // Readings are attributed to cells by the RE-FITTED model: under the old model a changed cell's new
-  // readings would be credited to look-alike neighbours and the change would hide itself.
+  const start = intoFamily(old.model, options.transitions, options.dwell);
+  const search: RefitSearchOptions = {
+    ...config.search,
+    loop: { mode: options.transitions, priorStrength: options.priorStrength, prior: old.model.emission.slice(), maxIter: options.maxIter, tol: options.tol },
+  };
+  const n = old.model.cells.length;
+  const m = old.model.surfaces.length;
+  // Each re-fit (of the new runs, then of every null draw) is the same search from the old model with
+  // the prior centred on the old rows. Readings are then attributed to cells by the RE-FITTED model:
+  // under the old model a changed cell's new readings would be credited to look-alike neighbours.
+  const refitOf = async (runs: ReadonlyArray<{ id: string; obs: Int32Array }>, draw: number) => {
+    const packed = packRuns(runs, config.workers > 1);
+    const blocks = toBlocks(runs.length, options.blockSize);
+    const engine: EStepEngine = config.workers > 1 ? new PoolEngine(packed, config.workers, { mode: options.transitions }) : new LocalEngine(packed, { mode: options.transitions });
+    try {
+      const found = await searchRefit(engine, packed, blocks, start, search, onProgress ? (p) => onProgress({ ...p, draw, draws: config.nullDraws }) : undefined);
+      const counts = reduceBlocks(found.model, packed, await engine.counts(found.model, blocks));
+      return { found, countsT: counts.emitT, nReadings: counts.nReadings };
+    } finally {
+      await engine.close();
+    }
+  };
+  const observed = await refitOf(loaded.runs, 0);
+  const refit = observed.found.model;
   const nullCounts: Float64Array[] = [];
   for (let b = 1; b <= config.nullDraws; b++) {
-    const drawn = drawNullRuns(old.model, loaded.runs, nullDrawSeed(options.seed, b));
-    nullCounts.push(countsT((await refitOf(drawn, b)).record.cellReadings ?? [], old.model.cells.length, old.model.surfaces.length));
+    nullCounts.push((await refitOf(drawNullRuns(old.model, loaded.runs, nullDrawSeed(options.seed, b)), b)).countsT);
   }
   const { changes, inflation } = compareCells(
     old.model,
     oldCountsT(old),
-    countsT(record.cellReadings ?? [], old.model.cells.length, old.model.surfaces.length),
+    observed.countsT,
     { ...config.compare, oldPriorStrength: old.fit?.options?.priorStrength ?? 0 },
     nullCounts,
   );
+  const record = refitRecord(observed.found, observed.countsT, observed.nReadings, n, m, {
+    floorDigest,
+    runsDigests: loaded.digests,
+    options,
+    runIds: loaded.runs.map((r) => r.id),
+    startDwell: firstDwell(start),
+  });
   const runs = scoreShift(old.model, refit, loaded.runs);
   const readings = runs.reduce((s, r) => s + r.readings, 0);
   const before = runs.reduce((s, r) => s + r.before, 0) / Math.max(1, readings);
@@ -133,6 +161,56 @@ export async function compareFromFiles(config: CompareConfig, onProgress?: (p: C
     newFloor,
     warnings: loaded.warnings,
   };
+}
+
+/**
+ * The re-fitted model's provenance, in the model file's `fit` record: every candidate start as a
+ * restart (restart 0 the plain warm start, then one per robust phase), the selected one, the EM loop
+ * after the last kept swap as the final pass, and the expected readings per cell.
+ */
+function refitRecord(
+  found: RefitSearchResult,
+  countsT: Float64Array,
+  nReadings: number,
+  n: number,
+  m: number,
+  o: { floorDigest: string; runsDigests: Array<{ file: string; sha256: string }>; options: FitOptions; runIds: string[]; startDwell: number },
+): FitRecord {
+  const loopRecord = (res: EmLoopResult): LoopRecord => ({
+    seed: o.options.seed,
+    iterations: res.iterations,
+    stopReason: res.stopReason,
+    history: res.history,
+    trainLogLikPerReading: res.logLikPerReading,
+    heldOutLogLikPerReading: null,
+    startDwell: o.startDwell,
+  });
+  return {
+    tool: 'underfoot',
+    toolVersion: TOOL_VERSION,
+    floorDigest: o.floorDigest,
+    runsDigests: o.runsDigests,
+    options: { ...o.options, restarts: found.candidates.length, holdout: 0, holdoutCol: null, finalPass: found.finalLoop !== null },
+    split: { fit: o.runIds, heldOut: [] },
+    nReadings: { fit: nReadings, heldOut: 0 },
+    restarts: found.candidates.map((c) => loopRecord(c.loop)),
+    selected: found.selected,
+    selectedBy: 'training',
+    finalPass: found.finalLoop ? loopRecord(found.finalLoop) : null,
+    cellReadings: Array.from({ length: n }, (_, i) => Array.from({ length: m }, (_, r) => countsT[r * n + i])),
+  };
+}
+
+function toBlocks(nRuns: number, size: number): number[][] {
+  const blocks: number[][] = [];
+  for (let a = 0; a < nRuns; a += size) blocks.push(Array.from({ length: Math.min(size, nRuns - a) }, (_, k) => a + k));
+  return blocks;
+}
+
+function firstDwell(model: HmmModel): number {
+  const s = model.structure;
+  for (let i = 0; i < s.nCells; i++) if (s.succPtr[i + 1] - s.succPtr[i] > 1) return model.trans[s.dwellPos[i]];
+  return 1;
 }
 
 /** Seed of null draw `b` (1-based), from the re-fit's seed. */

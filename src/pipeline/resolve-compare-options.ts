@@ -1,6 +1,7 @@
 import { InputError, quote } from '../errors.js';
 import type { CompareOptions } from '../compare/compare-cells.js';
 import type { FitOptions } from '../fit/fit-record.js';
+import { DEFAULT_REFIT_SEARCH, type RefitSearchOptions } from '../compare/search-refit.js';
 import { resolveFitOptions, type RawFitOptions } from './resolve-fit-options.js';
 
 /** Default number of simulated copies of the new runs that calibrate `compare`'s p-values. */
@@ -13,6 +14,7 @@ export interface ResolvedCompareOptions {
   workers: number;
   /** Simulated copies of the new runs under the old model (parametric bootstrap); 0 = quick screen. */
   nullDraws: number;
+  search: Omit<RefitSearchOptions, 'loop'>;
 }
 
 /**
@@ -25,7 +27,7 @@ export function resolveCompareOptions(
   where: string,
   flag: (key: string) => string = (k) => `--${k.replace(/[A-Z]/g, (c) => '-' + c.toLowerCase())}`,
 ): ResolvedCompareOptions {
-  const { options, workers } = resolveFitOptions({ restarts: 1, ...raw, holdout: 0, finalPass: false }, where, flag);
+  const { options, workers } = resolveFitOptions({ ...raw, restarts: 1, holdout: 0, finalPass: false }, where, flag);
   const num = (key: string, def: number, ok: (x: number) => boolean, requirement: string): number => {
     const v = raw[key];
     if (v === undefined || v === null) return def;
@@ -41,5 +43,21 @@ export function resolveCompareOptions(
     fit: options,
     workers,
     nullDraws: num('nullDraws', DEFAULT_NULL_DRAWS, (x) => Number.isInteger(x) && x >= 0 && x <= 1000, 'a whole number from 0 to 1000'),
+    search: {
+      ...DEFAULT_REFIT_SEARCH,
+      robust: robustList(raw.robust, where, flag),
+      swapRounds: num('swapRounds', DEFAULT_REFIT_SEARCH.swapRounds, (x) => Number.isInteger(x) && x >= 0 && x <= 100, 'a whole number from 0 to 100'),
+    },
   };
+}
+
+/** `--robust 0.5,0.8` (flag), `[0.5, 0.8]` (pipeline), or `none`/`[]`: the ε of each robust phase. */
+function robustList(v: unknown, where: string, flag: (key: string) => string): number[] {
+  if (v === undefined || v === null) return DEFAULT_REFIT_SEARCH.robust.slice();
+  const items = Array.isArray(v) ? v : typeof v === 'string' ? (v.trim() === 'none' ? [] : v.split(',')) : [v];
+  const list = items.map((x) => (typeof x === 'number' ? x : typeof x === 'string' && x.trim() !== '' ? Number(x) : NaN));
+  if (!list.every((x) => Number.isFinite(x) && x > 0 && x < 1) || list.length > 5) {
+    throw new InputError(`${where}: ${flag('robust')} must be up to 5 numbers strictly between 0 and 1 (e.g. 0.5,0.8), or none, got ${quote(v)}`);
+  }
+  return list;
 }

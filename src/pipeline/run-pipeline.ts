@@ -75,6 +75,7 @@ export async function runPipeline(
         fit: compareOpts.fit,
         workers: compareOpts.workers,
         nullDraws: compareOpts.nullDraws,
+        search: compareOpts.search,
         keys,
       },
       onProgress,
