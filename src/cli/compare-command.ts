@@ -14,7 +14,7 @@ export const COMPARE_CAUTION =
 export function registerCompare(program: Command, io: CliIo): void {
   const cmd = program
     .command('compare')
-    .description('after flooring changes: re-fit from an old model on new runs and find which cells changed (experimental: see DEVELOPERS.md)')
+    .description('after flooring changes: re-fit the old model on new runs and find which cells changed')
     .requiredOption('--model <file>', 'the old (calibrated) model')
     .requiredOption('--floor <file>', 'floor file the old model was made for')
     .requiredOption('--runs <files...>', 'runs recorded since the change')

@@ -1,6 +1,7 @@
 import type { HmmModel } from '../model/hmm-model.js';
 import { maximizeModel } from '../model/maximize-model.js';
-import { runEm, type EmLoopOptions, type EmLoopResult } from '../fit/em-loop.js';
+import type { EmLoopOptions, EmLoopResult } from '../fit/em-loop.js';
+import { runSquarem } from '../fit/squarem-loop.js';
 import type { EStepEngine } from '../fit/e-step-engine.js';
 import type { PackedRuns } from '../fit/packed-runs.js';
 import { reduceBlocks } from '../fit/reduce-blocks.js';
@@ -86,6 +87,9 @@ export interface RefitSearchProgress {
  *    `swapRounds` rounds. (Also spreading the new row to a look-alike
  *    was tried: on the demo it doubled the search's cost for a log-likelihood gain of about 2.)
  * 3. Every comparison is on the EM objective (log-likelihood + emission log prior) of the same runs.
+ *
+ * Every EM loop is accelerated by SQUAREM (`runSquarem`), which reaches the same kind of fixed point in
+ * far fewer E-steps; the robust phases are plain EM (their E-step is not the EM of the final objective).
  */
 export async function searchRefit(
   engine: EStepEngine,
@@ -99,10 +103,9 @@ export async function searchRefit(
   const n = old.cells.length;
   const loop = options.loop;
   const nReadings = countReadings(packed, blocks);
+  // Every EM loop here is accelerated (SQUAREM): the search runs many of them.
   const em = (start: HmmModel, stage: RefitSearchProgress['stage'], robust: number, limits: Partial<EmLoopOptions> = {}) =>
-    runEm(engine, packed, start, blocks, { ...loop, ...limits }, {
-      onIteration: onProgress ? (iteration, objectivePerReading) => onProgress({ stage, robust, iteration, objectivePerReading }) : undefined,
-    });
+    runSquarem(engine, packed, start, blocks, { ...loop, ...limits }, onProgress ? (iteration, objectivePerReading) => onProgress({ stage, robust, iteration, objectivePerReading }) : undefined);
   const last = (res: EmLoopResult): number => res.history[res.history.length - 1];
 
   const candidates: RefitCandidate[] = [];

@@ -1,12 +1,13 @@
 import type { HmmModel } from '../model/hmm-model.js';
 import { chainFromModel } from '../model/chain-from-model.js';
-import { emptyCounts, type ExpectedCountsTable } from '../model/expected-counts-table.js';
+import type { ExpectedCountsTable } from '../model/expected-counts-table.js';
 import { maximizeModel, type MaximizeOptions } from '../model/maximize-model.js';
 import { emissionLogPrior } from '../model/emission-log-prior.js';
-import { WorkError } from '../errors.js';
-import { accumulateRun } from './accumulate-run.js';
+import { LANES } from '../kernels/sparse-chain.js';
+import { accumulateBlock, type BlockCounts } from './accumulate-block.js';
 import { EStepWorkspace } from './e-step-workspace.js';
-import { impossibleRunError } from './impossible-run-error.js';
+import { packRuns } from './packed-runs.js';
+import { reduceBlocks } from './reduce-blocks.js';
 
 /** A run as the fitting code sees it: its id (for messages) and its reading codes (−1 = dropout). */
 export interface RunReadings {
@@ -27,10 +28,16 @@ export interface EmIterationResult {
   objective: number;
 }
 
+/** Runs per E-step block: one lane group (`LANES`), the size `fit` uses by default. */
+const BLOCK_SIZE = LANES;
+
 /**
- * E-step over all runs under `model`, then the M-step: one Baum-Welch iteration. Runs are accumulated
- * in the order given. A run that is impossible under the model stops the iteration with a WorkError
- * naming the run and the step at which its probability became zero.
+ * E-step over all runs under `model`, then the M-step: one Baum-Welch iteration. The E-step is the
+ * fit's: runs in blocks of `LANES` in the order given, each block through the lane kernels
+ * (`accumulateBlock`, per-link counts; WebAssembly SIMD where available) into its own accumulators, the
+ * blocks added in order. A run that is impossible under the model stops the iteration with a WorkError
+ * naming the run and the step at which its probability became zero; a non-finite count, with one
+ * naming the cell.
  */
 export function emIteration(
   model: HmmModel,
@@ -39,12 +46,14 @@ export function emIteration(
   ws: EStepWorkspace = new EStepWorkspace(),
 ): EmIterationResult {
   const chain = chainFromModel(model);
-  const counts = emptyCounts(chain.nCells, chain.nnz, chain.nReadings);
-  for (const run of runs) {
-    const logP = accumulateRun(chain, run.obs, counts, ws);
-    if (logP === -Infinity) throw impossibleRunError(model, run);
-    if (!Number.isFinite(logP)) throw new WorkError(`run ${JSON.stringify(run.id)}: log-likelihood must be finite, got ${logP}`);
+  const packed = packRuns(runs);
+  const blocks: BlockCounts[] = [];
+  for (let a = 0; a < runs.length; a += BLOCK_SIZE) {
+    const block = Array.from({ length: Math.min(BLOCK_SIZE, runs.length - a) }, (_, k) => a + k);
+    blocks.push(accumulateBlock(chain, packed, block, ws, 'learned'));
+    if (blocks[blocks.length - 1].impossibleRun >= 0) break; // `reduceBlocks` names it
   }
+  const counts = reduceBlocks(model, packed, blocks);
   const logPrior = emissionLogPrior(model, options.prior, options.priorStrength ?? 10);
   return {
     model: maximizeModel(model, counts, options),

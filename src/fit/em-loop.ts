@@ -1,4 +1,5 @@
 import type { HmmModel, TransitionMode } from '../model/hmm-model.js';
+import type { ExpectedCountsTable } from '../model/expected-counts-table.js';
 import { maximizeModel } from '../model/maximize-model.js';
 import { emissionLogPrior } from '../model/emission-log-prior.js';
 import { WorkError } from '../errors.js';
@@ -49,6 +50,8 @@ export interface EmLoopResult {
   history: number[];
   /** Log-likelihood per reading of the fitted runs under the returned model. */
   logLikPerReading: number;
+  /** Expected counts of the fitted runs under the returned model (its E-step, reduced in block order). */
+  counts: ExpectedCountsTable;
 }
 
 /** A decrease of the objective larger than this (relative) is a defect, not convergence. */
@@ -87,11 +90,11 @@ export async function runEm(
         );
       }
       if (Math.abs(perReading - previous) <= options.tol * Math.abs(previous) + 1e-15) {
-        return { model, iterations, stopReason: 'converged', history, logLikPerReading: counts.logLik / Math.max(1, counts.nReadings) };
+        return { model, iterations, stopReason: 'converged', history, logLikPerReading: counts.logLik / Math.max(1, counts.nReadings), counts };
       }
     }
     if (iterations >= options.maxIter) {
-      return { model, iterations, stopReason: 'max-iter', history, logLikPerReading: counts.logLik / Math.max(1, counts.nReadings) };
+      return { model, iterations, stopReason: 'max-iter', history, logLikPerReading: counts.logLik / Math.max(1, counts.nReadings), counts };
     }
     model = maximizeModel(model, counts, { mode: options.mode, priorStrength: options.priorStrength, prior: options.prior });
     iterations++;

@@ -19,6 +19,7 @@ import type { FitOptions, FitRecord, LoopRecord } from './fit-record.js';
 import { TOOL_VERSION } from '../version.js';
 import { selectRestart } from './select-restart.js';
 import { reduceBlocks } from './reduce-blocks.js';
+import type { ExpectedCountsTable } from '../model/expected-counts-table.js';
 
 export interface FitInput {
   floor: FloorGraph;
@@ -154,9 +155,11 @@ export async function fitModel(
     const selected = selectRestart(restarts, byHeldOut);
     let model = models[selected];
     let finalPass: LoopRecord | null = null;
+    let finalCounts: ExpectedCountsTable | null = null;
     if (o.finalPass) {
       const res = await runEm(engine, packed, model, allBlocks, loopOptions, loopHooks('final', selected, model));
       model = res.model;
+      finalCounts = res.counts;
       finalPass = {
         seed: seeds[selected],
         iterations: res.iterations,
@@ -167,7 +170,10 @@ export async function fitModel(
         startDwell: restarts[selected].startDwell,
       };
     }
-    const cellReadings = await finalCounts(engine, packed, model, allBlocks);
+    // The final pass ends with an E-step of the returned model over all runs: its counts are the ones
+    // to record. Without a final pass, one more E-step over all runs makes them.
+    finalCounts ??= reduceBlocks(model, packed, await engine.counts(model, allBlocks));
+    const cellReadings = readingsByCell(model, finalCounts);
     const count = (idx: number[]): number => idx.reduce((sum, r) => sum + countReadings(packed, r), 0);
     const record: FitRecord = {
       tool: 'underfoot',
@@ -203,9 +209,8 @@ function withParams(model: HmmModel, p: CheckpointParams): HmmModel {
   return { ...model, start: Float64Array.from(p.start), trans: Float64Array.from(p.trans), emission: Float64Array.from(p.emission) };
 }
 
-/** Expected readings per cell and surface over all runs under `model` (one more E-step). */
-async function finalCounts(engine: EStepEngine, packed: PackedRuns, model: HmmModel, blocks: number[][]): Promise<number[][]> {
-  const counts = reduceBlocks(model, packed, await engine.counts(model, blocks));
+/** Expected readings per cell (rows) and surface (columns), from counts over all runs under `model`. */
+function readingsByCell(model: HmmModel, counts: ExpectedCountsTable): number[][] {
   const n = model.cells.length;
   const m = model.surfaces.length;
   return model.cells.map((_, i) => Array.from({ length: m }, (_, r) => counts.emitT[r * n + i]));

@@ -70,9 +70,11 @@ export function buildRunsTable(input: KeyedRows, options: ReadRunsOptions): Runs
   // Pass 1, in file order so the first bad row is the one reported.
   const runIndex = new Map<string, number>();
   const runIds: string[] = [];
+  // A few bytes per row: steps as 32-bit integers until one needs more (then as float64, exact to 2^53),
+  // reading codes in one byte when the surfaces allow (the codes, DROPOUT and UNKNOWN then fit).
   const runOfRow = new Int32Array(nRows);
-  const stepOfRow = new Float64Array(nRows);
-  const codeOfRow = new Int32Array(nRows);
+  let stepOfRow: Int32Array | Float64Array = new Int32Array(nRows);
+  const codeOfRow = options.surfaces.length <= 127 ? new Int8Array(nRows) : new Int32Array(nRows);
   const unknownLabels = new Map<string, number>();
   let lastRunId = '';
   let lastRun = -1;
@@ -100,6 +102,7 @@ export function buildRunsTable(input: KeyedRows, options: ReadRunsOptions): Runs
         `${source}: step of run ${quote(runId)} at ${locate(row)} must be a whole number >= 0, got ${describeValue(rawStep)}`,
       );
     }
+    if (step > 0x7fffffff && stepOfRow instanceof Int32Array) stepOfRow = Float64Array.from(stepOfRow);
     stepOfRow[row] = step;
 
     const rawReading = input.readingAt(row);

@@ -22,6 +22,47 @@ export class CsvColumn {
     return start === NULL_FIELD ? null : (this.escaped.get(row) as string);
   }
 
+  /** True when the fields at rows `a` and `b` hold the same value (both null, or the same text), without slicing. */
+  sameAs(a: number, b: number): boolean {
+    const sa = this.starts[a];
+    const sb = this.starts[b];
+    if (sa < 0 || sb < 0) return sa === sb && (sa === NULL_FIELD || this.escaped.get(a) === this.escaped.get(b));
+    const length = this.ends[a] - sa;
+    if (this.ends[b] - sb !== length) return false;
+    const text = this.text;
+    for (let k = 0; k < length; k++) if (text.charCodeAt(sa + k) !== text.charCodeAt(sb + k)) return false;
+    return true;
+  }
+
+  /** True when the field at `row` is exactly `value` (text; never true for a null field), without slicing. */
+  equals(row: number, value: string): boolean {
+    const start = this.starts[row];
+    if (start < 0) return start === ESCAPED_FIELD && this.escaped.get(row) === value;
+    if (this.ends[row] - start !== value.length) return false;
+    const text = this.text;
+    for (let k = 0; k < value.length; k++) if (text.charCodeAt(start + k) !== value.charCodeAt(k)) return false;
+    return true;
+  }
+
+  /**
+   * The field at `row` as a number when it is nothing but 1 to 15 decimal digits (so the number is exact),
+   * read without slicing; −1 otherwise (the caller then looks at the text).
+   */
+  digits(row: number): number {
+    const start = this.starts[row];
+    if (start < 0) return -1;
+    const end = this.ends[row];
+    if (end - start > 15) return -1;
+    const text = this.text;
+    let value = 0;
+    for (let k = start; k < end; k++) {
+      const d = text.charCodeAt(k) - 48;
+      if (d < 0 || d > 9) return -1;
+      value = value * 10 + d;
+    }
+    return value;
+  }
+
   /** Every field, in row order. */
   toArray(): (string | null)[] {
     const values = new Array<string | null>(this.nRows);
@@ -62,7 +103,9 @@ export function parseCsv(text: string, source: string): CsvTable {
   const header: string[] = [];
   let nCols = 0;
   let nRows = 0;
-  let capacity = 0;
+  // Room for as many rows as the text has line ends (grown if a CR-only file holds more), allocated once:
+  // growing by doubling touches about twice the memory, and fresh memory is slow to touch.
+  let capacity = countLineEnds(text) + 1;
   let starts: Int32Array[] = [];
   let ends: Int32Array[] = [];
   let escaped: Map<number, string>[] = [];
@@ -154,8 +197,9 @@ export function parseCsv(text: string, source: string): CsvTable {
     if (inHeader) {
       checkHeader(header, source);
       nCols = header.length;
-      starts = header.map(() => new Int32Array(0));
-      ends = header.map(() => new Int32Array(0));
+      starts = header.map(() => new Int32Array(capacity));
+      ends = header.map(() => new Int32Array(capacity));
+      rowLines = new Int32Array(capacity);
       escaped = header.map(() => new Map<number, string>());
       inHeader = false;
       continue;
@@ -189,6 +233,14 @@ function checkHeader(header: string[], source: string): void {
     }
     firstAt.set(name, i);
   });
+}
+
+/** Line feeds in the text, or carriage returns when it has no line feed (a CR-only file). */
+function countLineEnds(text: string): number {
+  let n = 0;
+  for (let at = text.indexOf('\n'); at >= 0; at = text.indexOf('\n', at + 1)) n++;
+  if (n === 0) for (let at = text.indexOf('\r'); at >= 0; at = text.indexOf('\r', at + 1)) n++;
+  return n;
 }
 
 /** True when the text from `pos` on is nothing but line ends (checked only where a line is empty). */

@@ -1,7 +1,7 @@
-import { DataType, Precision, tableFromIPC, type Table, type Vector } from 'apache-arrow';
+import { DataType, Precision, tableFromIPC, type Data, type Table, type Vector } from 'apache-arrow';
 import { InputError, quote } from '../errors.js';
 import { buildRunsTable } from './build-runs-table.js';
-import { parseCsv } from './parse-csv.js';
+import { parseCsv, type CsvColumn } from './parse-csv.js';
 import { resolveKeyColumns } from './resolve-key-columns.js';
 import type { InputColumn, ReadRunsOptions, RunsTable } from './runs-table.js';
 
@@ -25,13 +25,33 @@ export function runsFromCsv(text: string, source: string, options: ReadRunsOptio
       nRows: csv.nRows,
       columns,
       ...keys,
-      runAt: (row) => run.get(row),
-      stepAt: (row) => step.get(row),
-      readingAt: (row) => reading.get(row),
+      runAt: csvText(run, []),
+      stepAt: (row) => {
+        const value = step.digits(row);
+        return value >= 0 ? value : step.get(row);
+      },
+      readingAt: csvText(reading, options.surfaces),
       locate: (row) => `line ${csv.lineOfRow(row)}`,
     },
     options,
   );
+}
+
+/**
+ * Reads a text key column row by row, in row order, without making a string per row: a field equal to
+ * the previous row's returns the same string (a run's id is sliced once per run), a field equal to one
+ * of `known` (the surfaces) returns that string; only other fields are sliced.
+ */
+function csvText(column: CsvColumn, known: readonly string[]): (row: number) => string | null {
+  let lastRow = -1;
+  let last: string | null = null;
+  return (row) => {
+    if (lastRow < 0 || !column.sameAs(row, lastRow)) {
+      last = known.find((value) => column.equals(row, value)) ?? column.get(row);
+    }
+    lastRow = row;
+    return last;
+  };
 }
 
 /**
@@ -47,7 +67,7 @@ export function runsFromArrow(bytes: Uint8Array, source: string, options: ReadRu
   const columns = vectors.map((vector, j) => arrowColumn(names[j], vector));
   const keys = resolveKeyColumns(names, options, source);
   const [runs, steps, readings] = [keys.runCol, keys.stepCol, keys.readingCol].map((name) =>
-    keyValues(vectors[names.indexOf(name)]),
+    keyValues(vectors[names.indexOf(name)], name === keys.readingCol ? options.surfaces : []),
   );
   return buildRunsTable(
     {
@@ -125,15 +145,87 @@ function arrowColumn(name: string, vector: Vector): InputColumn {
 }
 
 /**
- * Reads a key column by row. Numbers without nulls come from one typed array; other values are decoded
- * per call and dropped soon after, which costs less than keeping millions of decoded strings.
+ * Reads a key column row by row, in row order, without a JavaScript value per row where it can: numbers
+ * without nulls come from one typed array; Utf8 text (`utf8Values`) and dictionary-encoded text
+ * (`dictionaryValues`) return strings shared between rows. Other types are decoded per call and dropped
+ * soon after.
  */
-function keyValues(vector: Vector): (row: number) => unknown {
+function keyValues(vector: Vector, known: readonly string[]): (row: number) => unknown {
   const type = vector.type as DataType;
   const halfFloat = DataType.isFloat(type) && type.precision === Precision.HALF;
   if (vector.nullCount === 0 && isNumeric(type) && !halfFloat) {
     const values = vector.toArray() as ArrayLike<unknown>;
     return (row) => values[row];
   }
+  if (DataType.isUtf8(type)) return chunked(vector, (data) => utf8Values(data, known));
+  if (DataType.isDictionary(type) && isText(type.dictionary)) return chunked(vector, dictionaryValues);
   return (row) => toPlain(vector.get(row));
+}
+
+/**
+ * Reads a vector chunk by chunk (record batch by record batch) with a reader made per chunk; rows are
+ * expected in order, and a row before the current chunk starts over from the first chunk.
+ */
+function chunked(vector: Vector, reader: (data: Data) => (index: number) => unknown): (row: number) => unknown {
+  const chunks = vector.data;
+  let k = -1;
+  let first = 0;
+  let length = 0;
+  let read: (index: number) => unknown = () => null;
+  return (row) => {
+    if (row < first) {
+      k = -1;
+      first = 0;
+      length = 0;
+    }
+    while (row >= first + length && k + 1 < chunks.length) {
+      first += length;
+      k++;
+      length = chunks[k].length;
+      read = reader(chunks[k]);
+    }
+    return read(row - first);
+  };
+}
+
+/**
+ * One Utf8 chunk's values: a value whose bytes equal the previous value's returns the same string (a
+ * run's id is decoded once per run), one equal to the UTF-8 bytes of a `known` string returns that
+ * string; only other values are decoded (as `Vector.get` decodes them).
+ */
+function utf8Values(data: Data, known: readonly string[]): (index: number) => string | null {
+  const encoder = new TextEncoder();
+  const decoder = new TextDecoder();
+  const knownBytes = known.map((value) => encoder.encode(value));
+  const offsets = data.valueOffsets as Int32Array;
+  const bytes = data.values as Uint8Array;
+  const same = (x: number, y: number, other: Uint8Array, at: number): boolean => {
+    if (other.length - at < y - x) return false;
+    for (let p = x; p < y; p++) if (bytes[p] !== other[at + p - x]) return false;
+    return true;
+  };
+  let lastStart = -1;
+  let lastEnd = -1;
+  let last: string | null = null;
+  const validity = data.nullCount > 0 ? data.nullBitmap : null;
+  const offset = data.offset;
+  return (index) => {
+    if (validity !== null && ((validity[(offset + index) >> 3] >> ((offset + index) & 7)) & 1) === 0) return null;
+    const x = offsets[index];
+    const y = offsets[index + 1];
+    if (lastStart < 0 || y - x !== lastEnd - lastStart || !same(x, y, bytes, lastStart)) {
+      const k = knownBytes.findIndex((b) => b.length === y - x && same(x, y, b, 0));
+      last = k >= 0 ? known[k] : decoder.decode(bytes.subarray(x, y));
+    }
+    lastStart = x;
+    lastEnd = y;
+    return last;
+  };
+}
+
+/** One dictionary-encoded chunk's values: the dictionary is decoded once, each row reads its key. */
+function dictionaryValues(data: Data): (index: number) => string | null {
+  const dictionary = data.dictionary ? (Array.from(data.dictionary.toArray() as ArrayLike<unknown>, toPlain) as Array<string | null>) : [];
+  const keys = data.values as ArrayLike<number | bigint>;
+  return (index) => (data.getValid(index) ? (dictionary[Number(keys[index])] ?? null) : null);
 }

@@ -10,6 +10,14 @@ import { tableFormatOf } from './table-format-of.js';
  */
 export async function readRuns(path: string, options: ReadRunsOptions): Promise<RunsTable> {
   const format = tableFormatOf(path);
-  const bytes = await readInputFile(path);
-  return format === 'csv' ? runsFromCsv(decodeUtf8(bytes, path), path, options) : runsFromArrow(bytes, path, options);
+  if (format !== 'csv') return runsFromArrow(await readInputFile(path), path, options);
+  return runsFromCsv(await readText(path), path, options);
+}
+
+/**
+ * A file's text. The bytes live only inside this function, so once it returns they can be freed while
+ * the text is parsed (a large CSV's bytes and text are not both held).
+ */
+async function readText(path: string): Promise<string> {
+  return decodeUtf8(await readInputFile(path), path);
 }

@@ -2,7 +2,7 @@ import { describe, it, expect } from 'vitest';
 import { searchRefit, DEFAULT_REFIT_SEARCH, type RefitSearchOptions } from '../../src/compare/search-refit.js';
 import { packRuns } from '../../src/fit/packed-runs.js';
 import { LocalEngine } from '../../src/fit/local-engine.js';
-import { runEm } from '../../src/fit/em-loop.js';
+import { runSquarem } from '../../src/fit/squarem-loop.js';
 import { refurbishedGrid, calibrateOld, blocksOf } from './refurbished-grid.js';
 
 /** Cells whose re-fitted row moved more than 0.3 (total variation) from the old row. */
@@ -38,14 +38,14 @@ describe('searchRefit: the re-fit credits a change to the cell that changed', ()
     }, 60_000);
   }
 
-  it('with no robust starts and no swap rounds it is exactly EM warm-started from the old model', async () => {
+  it('with no robust starts and no swap rounds it is exactly (accelerated) EM warm-started from the old model', async () => {
     const s = refurbishedGrid(3, 2);
     const old = await calibrateOld(s);
     const packed = packRuns(s.newRuns);
     const engine = new LocalEngine(packed, { mode: 'fixed' });
     const loop: RefitSearchOptions['loop'] = { mode: 'fixed', priorStrength: 10, prior: old.emission, maxIter: 50, tol: 1e-8 };
     const plain = await searchRefit(engine, packed, blocksOf(40), old, { ...DEFAULT_REFIT_SEARCH, robust: [], swapRounds: 0, loop });
-    const direct = await runEm(engine, packed, old, blocksOf(40), loop);
+    const direct = await runSquarem(engine, packed, old, blocksOf(40), loop);
     expect(Array.from(plain.model.emission)).toEqual(Array.from(direct.model.emission));
     expect(plain.candidates).toHaveLength(1);
     expect(plain.swaps).toEqual([]);

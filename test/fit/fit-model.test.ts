@@ -4,6 +4,10 @@ import { buildModel } from '../../src/model/build-model.js';
 import { sampleRun } from '../../src/model/sample-run.js';
 import { SeededRandom } from '../../src/model/seeded-random.js';
 import { gridFloor } from '../helpers/grid-floor.js';
+import { LocalEngine } from '../../src/fit/local-engine.js';
+import { packRuns } from '../../src/fit/packed-runs.js';
+import { reduceBlocks } from '../../src/fit/reduce-blocks.js';
+import type { HmmModel } from '../../src/model/hmm-model.js';
 
 const floor = gridFloor(5, 4, ['oak', 'carpet', 'tile'], (x, y) => (x * 7 + y * 3) % 3);
 
@@ -38,4 +42,26 @@ describe('fitModel', () => {
     expect(Buffer.from(b.model.trans.buffer).equals(Buffer.from(a.model.trans.buffer))).toBe(true);
     expect(b.record).toEqual(a.record);
   });
+
+  // Oracle for `cellReadings`: one more E-step of the returned model over all runs, blocks of
+  // `blockSize` in run order, reduced in block order (what fitModel computed before it reused the final
+  // pass's last E-step).
+  async function readingsOf(model: HmmModel, blockSize: number): Promise<number[][]> {
+    const packed = packRuns(input.runs);
+    const all = input.runs.map((_, r) => r);
+    const blocks = Array.from({ length: Math.ceil(all.length / blockSize) }, (_, b) => all.slice(b * blockSize, (b + 1) * blockSize));
+    const counts = reduceBlocks(model, packed, await new LocalEngine(packed, { mode: 'tied' }).counts(model, blocks));
+    const n = model.cells.length;
+    return model.cells.map((_, i) => model.surfaces.map((_, r) => counts.emitT[r * n + i]));
+  }
+
+  for (const finalPass of [true, false]) {
+    it(`records cellReadings equal, bit for bit, to an E-step of the returned model over all runs (final pass ${finalPass ? 'on' : 'off'})`, async () => {
+      const o = { ...options, restarts: 2, maxIter: 6, finalPass, blockSize: 5 };
+      const { model, record } = await fitModel(input, o, 1);
+      expect(record.finalPass === null).toBe(!finalPass);
+      expect(record.cellReadings).toEqual(await readingsOf(model, 5));
+    });
+  }
 });
+

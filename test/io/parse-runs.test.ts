@@ -400,3 +400,74 @@ describe('reading repairs (documented: surrounding spaces and letter case)', () 
     expect(() => runsFromCsv('run,step,reading\nr1,0,TILE\n', 'runs.csv', { surfaces: ['tile', 'Tile'] })).toThrow(/got "TILE"/);
   });
 });
+
+describe('key columns read without a string per row (same results as reading each value)', () => {
+  it('runsFromCsv(text) tells run ids apart by their text, quoted or not, with doubled quotes, alternating', () => {
+    const t = runsFromCsv('run,step,reading\nr1,0,oak\n"r1",1,tile\n"r""x",0,oak\nr1,2,oak\n"r""x",1,carpet\nr,3,oak\nr11,0,tile\n', 'runs.csv', OPTIONS);
+    expect(t.runs.map((r) => [r.id, [...r.obs]])).toEqual([
+      ['r1', [OAK, TILE, OAK]],
+      ['r"x', [OAK, CARPET]],
+      ['r', [OAK]],
+      ['r11', [TILE]],
+    ]);
+  });
+
+  it('runsFromCsv(text) matches readings only when the whole field is a surface', () => {
+    expect(csvError('run,step,reading\nr1,0,oak\nr1,1,oaks\n')).toContain('got "oaks"');
+    expect(csvError('run,step,reading\nr1,0,oak\nr1,1,oa\n')).toContain('got "oa"');
+    const t = runsFromCsv('run,step,reading\nr1,0,"oak"\nr1,1,oak\nr1,2,carpet\n', 'runs.csv', OPTIONS);
+    expect([...t.runs[0].obs]).toEqual([OAK, OAK, CARPET]);
+  });
+
+  it('runsFromCsv(text) reads steps with leading zeros and up to 2^53 exactly', () => {
+    const t = runsFromCsv('run,step,reading\nr1,007,oak\nr1,8,tile\nr2,9007199254740990,oak\nr2,9007199254740991,tile\n', 'runs.csv', OPTIONS);
+    expect(t.runs[0].firstStep).toBe(7);
+    expect([...t.runs[0].obs]).toEqual([OAK, TILE]);
+    expect(t.runs[1].firstStep).toBe(9007199254740990);
+    expect([...t.runs[1].obs]).toEqual([OAK, TILE]);
+    expect(csvError('run,step,reading\nr1,9007199254740992,oak\n')).toContain('whole number');
+  });
+
+  it('steps beyond 32 bits after small ones keep every step exact (CSV and Arrow)', () => {
+    const csv = runsFromCsv('run,step,reading\na,1,oak\na,0,tile\nb,4294967297,oak\nb,4294967296,carpet\na,2,carpet\n', 'runs.csv', OPTIONS);
+    const arrow = runsFromArrow(
+      arrowBytes({
+        run: vectorFromArray(['a', 'a', 'b', 'b', 'a'], new Utf8()),
+        step: vectorFromArray([1n, 0n, 4294967297n, 4294967296n, 2n], new Int64()),
+        reading: vectorFromArray(['oak', 'tile', 'oak', 'carpet', 'carpet'], new Utf8()),
+      }),
+      'runs.arrow',
+      OPTIONS,
+    );
+    for (const t of [csv, arrow]) {
+      expect(t.runs.map((r) => [r.id, r.firstStep, [...r.obs], [...r.rows]])).toEqual([
+        ['a', 0, [TILE, OAK, CARPET], [1, 0, 4]],
+        ['b', 4294967296, [CARPET, OAK], [3, 2]],
+      ]);
+    }
+  });
+
+  it('runsFromArrow(bytes) reads Utf8 readings with nulls, repairs and surfaces outside ASCII', () => {
+    const surfaces = ['béton', 'oak', 'pierre bleue'];
+    const t = runsFromArrow(
+      arrowBytes({
+        run: vectorFromArray(['é1', 'é1', 'é1', 'é1', 'é1', 'x'], new Utf8()),
+        step: vectorFromArray([0, 1, 2, 3, 4, 0], new Int32()),
+        reading: vectorFromArray(['béton', null, ' Oak ', 'pierre bleue', 'béton', 'béton'], new Utf8()),
+      }),
+      'runs.arrow',
+      { surfaces },
+    );
+    expect(t.runs.map((r) => [r.id, [...r.obs]])).toEqual([
+      ['é1', [0, DROPOUT, 1, 2, 0]],
+      ['x', [0]],
+    ]);
+    expect(t.warnings[0]).toContain('" Oak " → "oak"');
+    const bad = arrowBytes({
+      run: vectorFromArray(['a', 'a'], new Utf8()),
+      step: vectorFromArray([0, 1], new Int32()),
+      reading: vectorFromArray(['béton', 'béto'], new Utf8()),
+    });
+    expect(arrowError(bad, { surfaces })).toContain('got "béto"');
+  });
+});
