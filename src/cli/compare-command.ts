@@ -1,5 +1,5 @@
 import type { Command } from 'commander';
-import { compareFromFiles, type CompareConfig, type CompareOutcome } from '../pipeline/compare-from-files.js';
+import type { CompareConfig, CompareOutcome } from '../pipeline/compare-from-files.js';
 import { DEFAULT_NULL_DRAWS, resolveCompareOptions } from '../pipeline/resolve-compare-options.js';
 import { DEFAULT_REFIT_SEARCH } from '../compare/search-refit.js';
 import { addKeyColumnOptions, addOutputOptions, keyColumnsFrom } from './common-options.js';
@@ -31,7 +31,7 @@ export function registerCompare(program: Command, io: CliIo): void {
     .option('--max-iter <n>', 'most EM iterations of the re-fit', '200')
     .option('--tol <x>', 'relative change of log-likelihood per reading that counts as converged', '1e-6')
     .option('--seed <s>', 'seed of the null draws', '1')
-    .option('--workers <n>', 'worker threads (default: the number of cores)');
+    .option('--workers <n>', 'threads for the E-step, the main one included (default: the number of cores)');
   addKeyColumnOptions(cmd);
   addOutputOptions(cmd);
   cmd.action(async (opts: Record<string, unknown>) => {
@@ -39,6 +39,8 @@ export function registerCompare(program: Command, io: CliIo): void {
     const progress = compareProgress(io, Boolean(opts.quiet));
     let res: CompareOutcome;
     try {
+      // Loaded when used: the statistics libraries need not load for other commands.
+      const { compareFromFiles } = await import('../pipeline/compare-from-files.js');
       res = await compareFromFiles(config, progress.onProgress);
     } finally {
       progress.done();

@@ -26,7 +26,7 @@ export function registerFit(program: Command, io: CliIo): void {
     .option('--prior-strength <w>', 'pseudo-readings per cell behind the survey prior (0 = maximum likelihood)', '10')
     .option('--max-iter <n>', 'most EM iterations per restart', '200')
     .option('--tol <x>', 'relative change of log-likelihood per reading that counts as converged', '1e-6')
-    .option('--workers <n>', 'worker threads (default: the number of cores)')
+    .option('--workers <n>', 'threads for the E-step, the main one included (default: the number of cores)')
     .option('--no-final-pass', 'skip continuing the chosen restart on all runs')
     .option('--from <model>', 'start from an existing model (warm start, for re-fits)')
     .option('--checkpoint <dir>', 'save the fit after every iteration in this folder; the same command resumes it');

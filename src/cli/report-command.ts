@@ -1,5 +1,5 @@
 import type { Command } from 'commander';
-import { reportToFile, type ReportConfig, type ReportOutcome } from '../pipeline/report-to-file.js';
+import type { ReportConfig, ReportOutcome } from '../pipeline/report-to-file.js';
 import { DEFAULT_AMBIGUITY_OPTIONS, type AmbiguityOptions } from '../report/estimate-ambiguity.js';
 import { addKeyColumnOptions, addOutputOptions, keyColumnsFrom, numberOption } from './common-options.js';
 import type { CliIo } from './cli-io.js';
@@ -23,6 +23,8 @@ export function registerReport(program: Command, io: CliIo): void {
   addOutputOptions(cmd);
   cmd.action(async (opts: Record<string, unknown>) => {
     const config = reportConfig(opts);
+    // Loaded when used: the chart libraries need not load for other commands.
+    const { reportToFile } = await import('../pipeline/report-to-file.js');
     const res = await reportToFile(config);
     for (const w of res.warnings) io.err(`warning: ${w}\n`);
     if (opts.json) io.out(JSON.stringify(reportJson(res)) + '\n');

@@ -1,5 +1,5 @@
 import type { Command } from 'commander';
-import { runPipeline } from '../pipeline/run-pipeline.js';
+
 import { addOutputOptions, numberOption } from './common-options.js';
 import type { CliIo } from './cli-io.js';
 import { compareProgress } from './progress.js';
@@ -12,13 +12,14 @@ export function registerRun(program: Command, io: CliIo): void {
     .command('run')
     .description('run a whole pipeline from a pipeline file (read, fit or re-fit and compare, decode, write)')
     .argument('<pipeline>', 'pipeline file (underfoot-pipeline/1 JSON)')
-    .option('--workers <n>', 'worker threads (overrides the pipeline file)');
+    .option('--workers <n>', 'threads for the E-step, the main one included (overrides the pipeline file)');
   addOutputOptions(cmd);
   cmd.action(async (path: string, opts: Record<string, unknown>) => {
     const workers = opts.workers === undefined ? undefined : numberOption(opts.workers, 'run', '--workers', (x) => Number.isInteger(x) && x >= 1, 'a whole number ≥ 1');
     const progress = compareProgress(io, Boolean(opts.quiet));
     let res;
     try {
+      const { runPipeline } = await import('../pipeline/run-pipeline.js');
       res = await runPipeline(path, progress.onProgress, { workers });
     } finally {
       progress.done();

@@ -2,7 +2,7 @@ import type { FloorGraph } from '../model/floor-graph.js';
 import type { HmmModel } from '../model/hmm-model.js';
 import { buildModel } from '../model/build-model.js';
 import { surveyPrior } from '../model/survey-prior.js';
-import { equalSplitTransitions } from '../model/equal-split-transitions.js';
+import { intoFamily } from '../model/into-family.js';
 import { WorkError } from '../errors.js';
 import { packRuns, type PackedRuns } from './packed-runs.js';
 import { splitRuns } from './split-runs.js';
@@ -94,7 +94,7 @@ export async function fitModel(
   const split = splitRuns(runs.length, o.holdout, o.seed, input.heldOutFlags);
   if (split.fit.length === 0) throw new WorkError('fit: at least one run must be left to fit on, got every run held out');
   const packed = packRuns(runs, workers > 1);
-  const base = input.warmStart ? intoFamily(input.warmStart, o) : buildModel(floor, { dwell: o.dwell, hit: o.hit });
+  const base = input.warmStart ? intoFamily(input.warmStart, o.transitions, o.dwell) : buildModel(floor, { dwell: o.dwell, hit: o.hit });
   const surfaceIndex = new Map(floor.surfaces.map((s, r) => [s, r] as const));
   const prior = input.prior ?? surveyPrior(Int32Array.from(floor.cells, (c) => surfaceIndex.get(c.surface) ?? 0), floor.surfaces.length, o.hit);
   const loopOptions: EmLoopOptions = { mode: o.transitions, priorStrength: o.priorStrength, prior, maxIter: o.maxIter, tol: o.tol };
@@ -243,16 +243,3 @@ function countReadings(packed: PackedRuns, r: number): number {
 }
 
 /** A warm-start model moved into the transition family of the mode (tied: one dwell, equal split). */
-function intoFamily(model: HmmModel, o: FitOptions): HmmModel {
-  if (o.transitions !== 'tied') return model;
-  const s = model.structure;
-  let sum = 0;
-  let n = 0;
-  for (let i = 0; i < s.nCells; i++) {
-    if (s.succPtr[i + 1] - s.succPtr[i] > 1) {
-      sum += model.trans[s.dwellPos[i]];
-      n++;
-    }
-  }
-  return { ...model, trans: equalSplitTransitions(s, n ? sum / n : o.dwell) };
-}
