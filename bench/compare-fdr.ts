@@ -18,7 +18,7 @@ import { drawNullRuns } from '../src/compare/draw-null-runs.js';
 import { searchRefit, DEFAULT_REFIT_SEARCH } from '../src/compare/search-refit.js';
 import { packRuns } from '../src/fit/packed-runs.js';
 import { LocalEngine } from '../src/fit/local-engine.js';
-import { reduceBlocks } from '../src/fit/reduce-blocks.js';
+import { toBlocks } from '../src/fit/to-blocks.js';
 import type { HmmModel } from '../src/model/hmm-model.js';
 import type { FloorGraph } from '../src/model/floor-graph.js';
 
@@ -87,7 +87,7 @@ async function trial(seed: number, k: number) {
   // The re-fit is compare's own search (src/compare/search-refit.ts), in one thread.
   const refitCounts = async (runs: Array<{ id: string; obs: Int32Array }>) => {
     const packed = packRuns(runs);
-    const blocks = Array.from({ length: Math.ceil(runs.length / 8) }, (_, b) => Array.from({ length: Math.min(8, runs.length - 8 * b) }, (_, k) => 8 * b + k));
+    const blocks = toBlocks(runs.map((_, r) => r), 8);
     const engine = new LocalEngine(packed, { mode: 'fixed' });
     const found = await searchRefit(engine, packed, blocks, calibrated, {
       ...DEFAULT_REFIT_SEARCH,
@@ -95,7 +95,7 @@ async function trial(seed: number, k: number) {
       ...(process.env.SWAP !== undefined ? { swapRounds: Number(process.env.SWAP) } : {}),
       loop: { mode: 'fixed', priorStrength, prior: calibrated.emission, maxIter: iterations, tol: 1e-7 },
     });
-    return { refit: found.model, counts: reduceBlocks(found.model, packed, await engine.counts(found.model, blocks)).emitT };
+    return { refit: found.model, counts: found.counts.emitT };
   };
   const { refit, counts: newCounts } = await refitCounts(newRuns);
   const draws: Float64Array[] = [];

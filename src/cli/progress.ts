@@ -2,11 +2,14 @@ import type { FitProgress } from '../fit/fit-model.js';
 import type { CompareProgress } from '../pipeline/compare-from-files.js';
 import type { CliIo } from './cli-io.js';
 
+/** Any EM loop's progress event: where it is (`describe` names it), the iteration and the objective. */
+type LoopProgress = { iteration: number; objectivePerReading: number };
+
 /**
- * A one-line progress display on stderr, redrawn in place; silent unless stderr is a terminal and
- * `--quiet` is off. Returns the callback and a function that clears the line.
+ * A one-line progress display on stderr, redrawn in place at most every 100 ms; silent unless stderr
+ * is a terminal and `--quiet` is off. Returns the callback and a function that clears the line.
  */
-export function fitProgress(io: CliIo, quiet: boolean): { onProgress?: (p: FitProgress) => void; done: () => void } {
+function lineProgress<P extends LoopProgress>(io: CliIo, quiet: boolean, describe: (p: P) => string): { onProgress?: (p: P) => void; done: () => void } {
   if (quiet || !io.errIsTty) return { done: () => {} };
   let last = 0;
   let drawn = false;
@@ -16,8 +19,7 @@ export function fitProgress(io: CliIo, quiet: boolean): { onProgress?: (p: FitPr
       if (now - last < 100 && p.iteration !== 0) return;
       last = now;
       drawn = true;
-      const what = p.phase === 'restart' ? `restart ${p.restart + 1} of ${p.restarts}` : `final pass (restart ${p.restart + 1}, all runs)`;
-      io.err(`\r\x1b[2K${what} · iteration ${p.iteration} · objective ${p.objectivePerReading.toFixed(6)} per reading`);
+      io.err(`\r\x1b[2K${describe(p)} · iteration ${p.iteration} · objective ${p.objectivePerReading.toFixed(6)} per reading`);
     },
     done: () => {
       if (drawn) io.err('\r\x1b[2K');
@@ -25,29 +27,21 @@ export function fitProgress(io: CliIo, quiet: boolean): { onProgress?: (p: FitPr
   };
 }
 
+function describeFit(p: FitProgress): string {
+  return p.phase === 'restart' ? `restart ${p.restart + 1} of ${p.restarts}` : `final pass (restart ${p.restart + 1}, all runs)`;
+}
+
+/** `fit`'s progress: which restart or the final pass. */
+export function fitProgress(io: CliIo, quiet: boolean): { onProgress?: (p: FitProgress) => void; done: () => void } {
+  return lineProgress(io, quiet, describeFit);
+}
+
 /** `compare`'s progress (the re-fit of the new runs, then each null draw's re-fit), or a plain fit's. */
 export function compareProgress(io: CliIo, quiet: boolean): { onProgress?: (p: CompareProgress | FitProgress) => void; done: () => void } {
-  if (quiet || !io.errIsTty) return { done: () => {} };
-  let last = 0;
-  let drawn = false;
-  return {
-    onProgress: (p) => {
-      const now = Date.now();
-      if (now - last < 100 && p.iteration !== 0) return;
-      last = now;
-      drawn = true;
-      let what: string;
-      if (!('draw' in p)) {
-        what = p.phase === 'restart' ? `restart ${p.restart + 1} of ${p.restarts}` : `final pass (restart ${p.restart + 1}, all runs)`;
-      } else {
-        const data = p.draw === 0 ? 're-fit of the new runs' : `null draw ${p.draw} of ${p.draws} (simulated, no change)`;
-        const stage = p.stage === 'plain' ? 'warm start' : p.stage === 'robust' ? `robust start ε ${p.robust}` : 'swap search';
-        what = `${data} · ${stage}`;
-      }
-      io.err(`\r\x1b[2K${what} · iteration ${p.iteration} · objective ${p.objectivePerReading.toFixed(6)} per reading`);
-    },
-    done: () => {
-      if (drawn) io.err('\r\x1b[2K');
-    },
-  };
+  return lineProgress<CompareProgress | FitProgress>(io, quiet, (p) => {
+    if (!('draw' in p)) return describeFit(p);
+    const data = p.draw === 0 ? 're-fit of the new runs' : `null draw ${p.draw} of ${p.draws} (simulated, no change)`;
+    const stage = p.stage === 'plain' ? 'warm start' : p.stage === 'robust' ? `robust start ε ${p.robust}` : 'swap search';
+    return `${data} · ${stage}`;
+  });
 }

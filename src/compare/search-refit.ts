@@ -4,6 +4,7 @@ import type { EmLoopOptions, EmLoopResult } from '../fit/em-loop.js';
 import { runSquarem } from '../fit/squarem-loop.js';
 import type { EStepEngine } from '../fit/e-step-engine.js';
 import type { PackedRuns } from '../fit/packed-runs.js';
+import type { ExpectedCountsTable } from '../model/expected-counts-table.js';
 import { reduceBlocks } from '../fit/reduce-blocks.js';
 
 /** How `compare` looks for the re-fit (all fixed: the null draws repeat exactly the same search). */
@@ -53,6 +54,8 @@ export interface RefitSwap {
 
 export interface RefitSearchResult {
   model: HmmModel;
+  /** Expected counts of the runs under `model` (the E-step of its last EM loop). */
+  counts: ExpectedCountsTable;
   candidates: RefitCandidate[];
   /** Index into `candidates` of the one the search continued from (highest objective). */
   selected: number;
@@ -102,7 +105,6 @@ export async function searchRefit(
   const m = old.surfaces.length;
   const n = old.cells.length;
   const loop = options.loop;
-  const nReadings = countReadings(packed, blocks);
   // Every EM loop here is accelerated (SQUAREM): the search runs many of them.
   const em = (start: HmmModel, stage: RefitSearchProgress['stage'], robust: number, limits: Partial<EmLoopOptions> = {}) =>
     runSquarem(engine, packed, start, blocks, { ...loop, ...limits }, onProgress ? (iteration, objectivePerReading) => onProgress({ stage, robust, iteration, objectivePerReading }) : undefined);
@@ -121,9 +123,11 @@ export async function searchRefit(
     }
     candidates.push({ robust: eps, loop: await em(start, eps > 0 ? 'robust' : 'plain', eps) });
   }
+  const nReadings = Math.max(1, candidates[0].loop.counts.nReadings);
   let selected = 0;
   for (let k = 1; k < candidates.length; k++) if (last(candidates[k].loop) > last(candidates[selected].loop)) selected = k;
   let best = candidates[selected].loop.model;
+  let bestCounts = candidates[selected].loop.counts;
   let bestObjective = last(candidates[selected].loop) * nReadings;
   let finalLoop: EmLoopResult | null = null;
   const swaps: RefitSwap[] = [];
@@ -156,10 +160,11 @@ export async function searchRefit(
     if (!(objective > bestObjective + SWAP_MIN_GAIN)) break;
     swaps.push({ from: top.from, to: top.to, gain: objective - bestObjective });
     best = res.model;
+    bestCounts = res.counts;
     bestObjective = objective;
     finalLoop = res;
   }
-  return { model: best, candidates, selected, swaps, finalLoop, objectivePerReading: bestObjective / Math.max(1, nReadings) };
+  return { model: best, counts: bestCounts, candidates, selected, swaps, finalLoop, objectivePerReading: bestObjective / nReadings };
 }
 
 /** A swap is kept only when it raises the objective by more than this (log-likelihood units). */
@@ -212,12 +217,4 @@ function within(adjacency: number[][], i: number, radius: number): number[] {
     frontier = next;
   }
   return found;
-}
-
-function countReadings(packed: PackedRuns, blocks: number[][]): number {
-  let count = 0;
-  for (const block of blocks) {
-    for (const r of block) for (let t = packed.offsets[r]; t < packed.offsets[r + 1]; t++) if (packed.obs[t] >= 0) count++;
-  }
-  return count;
 }

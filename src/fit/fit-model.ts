@@ -3,6 +3,7 @@ import type { HmmModel } from '../model/hmm-model.js';
 import { buildModel } from '../model/build-model.js';
 import { surveyPrior } from '../model/survey-prior.js';
 import { intoFamily } from '../model/into-family.js';
+import { toBlocks } from './to-blocks.js';
 import { WorkError } from '../errors.js';
 import { packRuns, type PackedRuns } from './packed-runs.js';
 import { splitRuns } from './split-runs.js';
@@ -216,11 +217,6 @@ function readingsByCell(model: HmmModel, counts: ExpectedCountsTable): number[][
   return model.cells.map((_, i) => Array.from({ length: m }, (_, r) => counts.emitT[r * n + i]));
 }
 
-function toBlocks(indices: number[], size: number): number[][] {
-  const blocks: number[][] = [];
-  for (let a = 0; a < indices.length; a += size) blocks.push(indices.slice(a, a + size));
-  return blocks;
-}
 
 async function scoreBlocks(engine: EStepEngine, packed: PackedRuns, model: HmmModel, blocks: number[][]): Promise<number> {
   let logLik = 0;
@@ -242,4 +238,3 @@ function countReadings(packed: PackedRuns, r: number): number {
   return n;
 }
 
-/** A warm-start model moved into the transition family of the mode (tied: one dwell, equal split). */

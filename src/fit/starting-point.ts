@@ -1,3 +1,4 @@
+import { firstDwell } from '../model/first-dwell.js';
 import type { HmmModel, TransitionMode } from '../model/hmm-model.js';
 import { SeededRandom } from '../model/seeded-random.js';
 import { equalSplitTransitions } from '../model/equal-split-transitions.js';
@@ -36,10 +37,4 @@ export function startingPoint(base: HmmModel, mode: TransitionMode, index: numbe
     trans = equalSplitTransitions(base.structure, dwell);
   }
   return { model: { ...base, emission, trans }, dwell };
-}
-
-function firstDwell(model: HmmModel): number {
-  const s = model.structure;
-  for (let i = 0; i < s.nCells; i++) if (s.succPtr[i + 1] - s.succPtr[i] > 1) return model.trans[s.dwellPos[i]];
-  return 1;
 }

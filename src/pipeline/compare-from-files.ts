@@ -15,12 +15,13 @@ import { forwardScore } from '../kernels/forward-score.js';
 import { drawNullRuns } from '../compare/draw-null-runs.js';
 import type { FitOptions, FitRecord, LoopRecord } from '../fit/fit-record.js';
 import { packRuns } from '../fit/packed-runs.js';
-import { reduceBlocks } from '../fit/reduce-blocks.js';
 import type { EStepEngine } from '../fit/e-step-engine.js';
 import { LocalEngine } from '../fit/local-engine.js';
 import { PoolEngine } from '../fit/pool-engine.js';
 import type { EmLoopResult } from '../fit/em-loop.js';
 import { intoFamily } from '../model/into-family.js';
+import { firstDwell } from '../model/first-dwell.js';
+import { toBlocks } from '../fit/to-blocks.js';
 import { searchRefit, type RefitSearchOptions, type RefitSearchProgress, type RefitSearchResult } from '../compare/search-refit.js';
 import { TOOL_VERSION } from '../version.js';
 import { compareCells, type CellChange, type CompareOptions } from '../compare/compare-cells.js';
@@ -103,12 +104,11 @@ export async function compareFromFiles(config: CompareConfig, onProgress?: (p: C
   // under the old model a changed cell's new readings would be credited to look-alike neighbours.
   const refitOf = async (runs: ReadonlyArray<{ id: string; obs: Int32Array }>, draw: number) => {
     const packed = packRuns(runs, config.workers > 1);
-    const blocks = toBlocks(runs.length, options.blockSize);
+    const blocks = toBlocks(runs.map((_, r) => r), options.blockSize);
     const engine: EStepEngine = config.workers > 1 ? new PoolEngine(packed, config.workers, { mode: options.transitions }) : new LocalEngine(packed, { mode: options.transitions });
     try {
       const found = await searchRefit(engine, packed, blocks, start, search, onProgress ? (p) => onProgress({ ...p, draw, draws: config.nullDraws }) : undefined);
-      const counts = reduceBlocks(found.model, packed, await engine.counts(found.model, blocks));
-      return { found, countsT: counts.emitT, nReadings: counts.nReadings };
+      return { found, countsT: found.counts.emitT, nReadings: found.counts.nReadings };
     } finally {
       await engine.close();
     }
@@ -201,17 +201,7 @@ function refitRecord(
   };
 }
 
-function toBlocks(nRuns: number, size: number): number[][] {
-  const blocks: number[][] = [];
-  for (let a = 0; a < nRuns; a += size) blocks.push(Array.from({ length: Math.min(size, nRuns - a) }, (_, k) => a + k));
-  return blocks;
-}
 
-function firstDwell(model: HmmModel): number {
-  const s = model.structure;
-  for (let i = 0; i < s.nCells; i++) if (s.succPtr[i + 1] - s.succPtr[i] > 1) return model.trans[s.dwellPos[i]];
-  return 1;
-}
 
 /** Seed of null draw `b` (1-based), from the re-fit's seed. */
 function nullDrawSeed(seed: number, b: number): number {

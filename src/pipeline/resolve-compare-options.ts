@@ -3,6 +3,7 @@ import type { CompareOptions } from '../compare/compare-cells.js';
 import type { FitOptions } from '../fit/fit-record.js';
 import { DEFAULT_REFIT_SEARCH, type RefitSearchOptions } from '../compare/search-refit.js';
 import { resolveFitOptions, type RawFitOptions } from './resolve-fit-options.js';
+import { optionReader } from './option-reader.js';
 
 /** Default number of simulated copies of the new runs that calibrate `compare`'s p-values. */
 export const DEFAULT_NULL_DRAWS = 10;
@@ -28,13 +29,7 @@ export function resolveCompareOptions(
   flag: (key: string) => string = (k) => `--${k.replace(/[A-Z]/g, (c) => '-' + c.toLowerCase())}`,
 ): ResolvedCompareOptions {
   const { options, workers } = resolveFitOptions({ ...raw, restarts: 1, holdout: 0, finalPass: false }, where, flag);
-  const num = (key: string, def: number, ok: (x: number) => boolean, requirement: string): number => {
-    const v = raw[key];
-    if (v === undefined || v === null) return def;
-    const x = typeof v === 'number' ? v : typeof v === 'string' && v.trim() !== '' ? Number(v) : NaN;
-    if (!Number.isFinite(x) || !ok(x)) throw new InputError(`${where}: ${flag(key)} must be ${requirement}, got ${quote(v)}`);
-    return x;
-  };
+  const { num, int } = optionReader(raw, where, flag);
   return {
     compare: {
       fdr: num('fdr', 0.05, (x) => x > 0 && x < 1, 'a rate strictly between 0 and 1'),
@@ -42,11 +37,11 @@ export function resolveCompareOptions(
     },
     fit: options,
     workers,
-    nullDraws: num('nullDraws', DEFAULT_NULL_DRAWS, (x) => Number.isInteger(x) && x >= 0 && x <= 1000, 'a whole number from 0 to 1000'),
+    nullDraws: int('nullDraws', DEFAULT_NULL_DRAWS, 0, 1000),
     search: {
       ...DEFAULT_REFIT_SEARCH,
       robust: robustList(raw.robust, where, flag),
-      swapRounds: num('swapRounds', DEFAULT_REFIT_SEARCH.swapRounds, (x) => Number.isInteger(x) && x >= 0 && x <= 100, 'a whole number from 0 to 100'),
+      swapRounds: int('swapRounds', DEFAULT_REFIT_SEARCH.swapRounds, 0, 100),
     },
   };
 }
@@ -57,7 +52,7 @@ function robustList(v: unknown, where: string, flag: (key: string) => string): n
   const items = Array.isArray(v) ? v : typeof v === 'string' ? (v.trim() === 'none' ? [] : v.split(',')) : [v];
   const list = items.map((x) => (typeof x === 'number' ? x : typeof x === 'string' && x.trim() !== '' ? Number(x) : NaN));
   if (!list.every((x) => Number.isFinite(x) && x > 0 && x < 1) || list.length > 5) {
-    throw new InputError(`${where}: ${flag('robust')} must be up to 5 numbers strictly between 0 and 1 (e.g. 0.5,0.8), or none, got ${quote(v)}`);
+    throw new InputError(`${where}: ${flag('robust')} must be up to 5 numbers strictly between 0 and 1 (flag: 0.5,0.8; pipeline: [0.5, 0.8]), or none, got ${quote(v)}`);
   }
   return list;
 }

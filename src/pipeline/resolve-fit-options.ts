@@ -1,5 +1,6 @@
 import { availableParallelism } from 'node:os';
 import { InputError, quote } from '../errors.js';
+import { optionReader } from './option-reader.js';
 import { DEFAULT_FIT_OPTIONS } from '../fit/fit-model.js';
 import type { FitOptions } from '../fit/fit-record.js';
 import type { TransitionMode } from '../model/hmm-model.js';
@@ -19,15 +20,7 @@ export function resolveFitOptions(
   const fail = (key: string, requirement: string): never => {
     throw new InputError(`${where}: ${flag(key)} must be ${requirement}, got ${quote(raw[key])}`);
   };
-  const num = (key: string, def: number, ok: (v: number) => boolean, requirement: string): number => {
-    const v = raw[key];
-    if (v === undefined || v === null) return def;
-    const x = typeof v === 'number' ? v : typeof v === 'string' && v.trim() !== '' ? Number(v) : NaN;
-    if (!Number.isFinite(x) || !ok(x)) fail(key, requirement);
-    return x;
-  };
-  const int = (key: string, def: number, min: number, max = Number.MAX_SAFE_INTEGER): number =>
-    num(key, def, (x) => Number.isInteger(x) && x >= min && x <= max, `a whole number from ${min}${max < Number.MAX_SAFE_INTEGER ? ` to ${max}` : ' up'}`);
+  const { num, int } = optionReader(raw, where, flag);
   const d = DEFAULT_FIT_OPTIONS;
   const transitions = (raw.transitions ?? d.transitions) as TransitionMode;
   if (!['fixed', 'tied', 'learned'].includes(transitions)) fail('transitions', 'one of fixed, tied, learned');

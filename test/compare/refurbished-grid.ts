@@ -5,6 +5,7 @@ import type { HmmModel } from '../../src/model/hmm-model.js';
 import { packRuns } from '../../src/fit/packed-runs.js';
 import { LocalEngine } from '../../src/fit/local-engine.js';
 import { runEm } from '../../src/fit/em-loop.js';
+import { toBlocks } from '../../src/fit/to-blocks.js';
 import { gridFloor } from '../helpers/grid-floor.js';
 
 /**
@@ -42,15 +43,15 @@ export function refurbishedGrid(seed: number, changed: number) {
 
 /** Blocks of 8 runs, in order. */
 export function blocksOf(nRuns: number): number[][] {
-  return Array.from({ length: Math.ceil(nRuns / 8) }, (_, b) => Array.from({ length: Math.min(8, nRuns - 8 * b) }, (_, k) => 8 * b + k));
+  return toBlocks(Array.from({ length: nRuns }, (_, r) => r), 8);
 }
 
-/** The old model: EM from the survey prior on the old runs (fixed transitions), and its expected readings. */
+/** The old model: EM from the survey prior on the old runs (fixed transitions), and its expected readings (readings × cells). */
 export async function calibrateOld(s: ReturnType<typeof refurbishedGrid>) {
   const start = buildModel(s.floor, { dwell: 0.6, hit: 0.85 });
   const packed = packRuns(s.oldRuns);
   const engine = new LocalEngine(packed, { mode: 'fixed' });
   const blocks = blocksOf(s.oldRuns.length);
   const res = await runEm(engine, packed, start, blocks, { mode: 'fixed', priorStrength: 10, prior: start.emission.slice(), maxIter: 300, tol: 1e-8 });
-  return res.model;
+  return { model: res.model, countsT: res.counts.emitT };
 }

@@ -4,8 +4,6 @@ import { compareCells } from '../../src/compare/compare-cells.js';
 import { drawNullRuns } from '../../src/compare/draw-null-runs.js';
 import { packRuns } from '../../src/fit/packed-runs.js';
 import { LocalEngine } from '../../src/fit/local-engine.js';
-import { reduceBlocks } from '../../src/fit/reduce-blocks.js';
-import type { HmmModel } from '../../src/model/hmm-model.js';
 import { refurbishedGrid, calibrateOld, blocksOf } from './refurbished-grid.js';
 
 /**
@@ -18,15 +16,13 @@ import { refurbishedGrid, calibrateOld, blocksOf } from './refurbished-grid.js';
  */
 async function compareTrial(seed: number, nChanged: number, nullDraws: number) {
   const s = refurbishedGrid(seed, nChanged);
-  const old = await calibrateOld(s);
-  const oldPacked = packRuns(s.oldRuns);
-  const oldCounts = reduceBlocks(old, oldPacked, await new LocalEngine(oldPacked, { mode: 'fixed' }).counts(old, blocksOf(40))).emitT;
+  const { model: old, countsT: oldCounts } = await calibrateOld(s);
   const loop: RefitSearchOptions['loop'] = { mode: 'fixed', priorStrength: 10, prior: old.emission, maxIter: 200, tol: 1e-6 };
   const refitCounts = async (runs: Array<{ id: string; obs: Int32Array }>): Promise<Float64Array> => {
     const packed = packRuns(runs);
     const engine = new LocalEngine(packed, { mode: 'fixed' });
     const found = await searchRefit(engine, packed, blocksOf(runs.length), old, { ...DEFAULT_REFIT_SEARCH, loop });
-    return reduceBlocks(found.model as HmmModel, packed, await engine.counts(found.model, blocksOf(runs.length))).emitT;
+    return found.counts.emitT;
   };
   const observed = await refitCounts(s.newRuns);
   const draws: Float64Array[] = [];

@@ -23,7 +23,7 @@ describe('searchRefit: the re-fit credits a change to the cell that changed', ()
   for (const seed of [2, 8]) {
     it(`seed ${seed}: the plain warm start misses, the search finds exactly the changed cells and a higher objective`, async () => {
       const s = refurbishedGrid(seed, 3);
-      const old = await calibrateOld(s);
+      const { model: old } = await calibrateOld(s);
       const packed = packRuns(s.newRuns);
       const engine = new LocalEngine(packed, { mode: 'fixed' });
       const loop: RefitSearchOptions['loop'] = { mode: 'fixed', priorStrength: 10, prior: old.emission, maxIter: 300, tol: 1e-8 };
@@ -40,7 +40,7 @@ describe('searchRefit: the re-fit credits a change to the cell that changed', ()
 
   it('with no robust starts and no swap rounds it is exactly (accelerated) EM warm-started from the old model', async () => {
     const s = refurbishedGrid(3, 2);
-    const old = await calibrateOld(s);
+    const { model: old } = await calibrateOld(s);
     const packed = packRuns(s.newRuns);
     const engine = new LocalEngine(packed, { mode: 'fixed' });
     const loop: RefitSearchOptions['loop'] = { mode: 'fixed', priorStrength: 10, prior: old.emission, maxIter: 50, tol: 1e-8 };
