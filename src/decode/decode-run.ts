@@ -2,6 +2,7 @@ import type { SparseChain } from '../kernels/sparse-chain.js';
 import { forwardSegment } from '../kernels/forward-segment.js';
 import { posteriorSummarySegment } from '../kernels/posterior-summary-segment.js';
 import { segmentSteps } from '../kernels/segment-steps.js';
+import { positionWorkSize, type PositionGroups, type PositionPass, type PositionSteps } from '../kernels/position-summary.js';
 import type { LogChain } from './log-chain.js';
 import { viterbiPath } from './viterbi-path.js';
 
@@ -22,6 +23,8 @@ export interface DecodedRun {
   entropyBits: Float64Array;
   /** −log2 P(reading_t | readings before t); NaN for dropouts. */
   surpriseBits: Float64Array;
+  /** Area and position summaries per step (`positionSummary`), when `DecodeOptions.positions` is given; else null. */
+  positions: PositionSteps | null;
 }
 
 export interface DecodeOptions {
@@ -32,6 +35,8 @@ export interface DecodeOptions {
    * either way. @default 64 MiB
    */
   plainLimitBytes?: number;
+  /** Cells grouped into areas and levels (`positionLayout(model).groups`): adds `DecodedRun.positions`. */
+  positions?: PositionGroups;
 }
 
 const DEFAULT_PLAIN_LIMIT_BYTES = 64 * 1024 * 1024;
@@ -58,6 +63,7 @@ export function decodeRun(chain: SparseChain, log: LogChain, obs: Int32Array, op
     likelyP: new Float64Array(T).fill(NaN),
     entropyBits: new Float64Array(T).fill(NaN),
     surpriseBits: new Float64Array(T).fill(NaN),
+    positions: options.positions ? newPositionSteps(T) : null,
   };
   if (T === 0) return out;
 
@@ -81,6 +87,10 @@ export function decodeRun(chain: SparseChain, log: LogChain, obs: Int32Array, op
   // Backward with the per-step summaries, last segment first, earlier ones recomputed from checkpoints.
   const w = new Float64Array(n);
   const wSpare = new Float64Array(n);
+  const position: PositionPass | undefined =
+    options.positions && out.positions
+      ? { groups: options.positions, gamma: new Float64Array(n), work: new Float64Array(positionWorkSize(options.positions)), out: out.positions }
+      : undefined;
   for (let g = nSegments - 1; g >= 0; g--) {
     const a = g * segment;
     const b = Math.min(T, a + segment);
@@ -88,8 +98,20 @@ export function decodeRun(chain: SparseChain, log: LogChain, obs: Int32Array, op
       if (g > 0) table.set(checkpoints.subarray(g * n, (g + 1) * n), 0);
       forwardSegment(chain, obs, a, b, table, scale, 0);
     }
-    posteriorSummarySegment(chain, obs, a, b, table, scale, path, w, wSpare, out.likelyCell, out.likelyP, out.pathP, out.entropyBits);
+    posteriorSummarySegment(chain, obs, a, b, table, scale, path, w, wSpare, out.likelyCell, out.likelyP, out.pathP, out.entropyBits, position);
   }
   for (let t = 0; t < T; t++) if (obs[t] >= 0) out.surpriseBits[t] = Math.log2(scale[t]);
   return out;
+}
+
+/** Per-step area and position outputs, NaN / −1 until decoded (they stay so for an impossible run). */
+function newPositionSteps(T: number): PositionSteps {
+  return {
+    likelyZone: new Int32Array(T).fill(-1),
+    zoneP: new Float64Array(T).fill(NaN),
+    meanLevel: new Int32Array(T).fill(-1),
+    meanX: new Float64Array(T).fill(NaN),
+    meanY: new Float64Array(T).fill(NaN),
+    spreadM: new Float64Array(T).fill(NaN),
+  };
 }

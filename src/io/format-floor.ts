@@ -8,8 +8,9 @@ export function formatFloor(floor: FloorGraph): string {
       format: 'underfoot-floor/1',
       name: floor.name,
       surfaces: floor.surfaces,
-      cells: floor.cells.map((c) => ({ id: c.id, surface: c.surface, x: c.x, y: c.y, level: c.level, ...(c.start ? { start: true } : {}) })),
+      cells: floor.cells.map((c) => ({ id: c.id, surface: c.surface, x: c.x, y: c.y, level: c.level, ...(c.start ? { start: true } : {}), ...(c.zone !== undefined ? { zone: c.zone } : {}) })),
       links: floor.links.map((l) => ({ from: l.from, to: l.to, ...(l.oneway ? { oneway: true } : {}) })),
+      ...(floor.georeference ? { georeference: floor.georeference } : {}),
     }) + '\n'
   );
 }

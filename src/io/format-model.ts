@@ -17,6 +17,7 @@ export function formatModel(file: ModelFile): string {
     x: c.x,
     y: c.y,
     level: c.level,
+    ...(c.zone !== undefined ? { zone: c.zone } : {}),
     start: model.start[i],
     dwell: model.trans[s.dwellPos[i]],
   }));

@@ -1,5 +1,5 @@
 import { InputError, quote } from '../errors.js';
-import type { FloorCell, FloorGraph, FloorLink } from '../model/floor-graph.js';
+import type { FloorCell, FloorGraph, FloorLink, Georeference } from '../model/floor-graph.js';
 import { listForMessage } from './list-for-message.js';
 import { locateJsonError } from './locate-json-error.js';
 
@@ -24,12 +24,14 @@ export function parseFloor(text: string, source: string): FloorGraph {
   const cellIndex = new Map<string, number>(cells.map((cell, i) => [cell.id, i]));
   const links = parseLinks(doc.links, cellIndex, source);
   checkWaysOut(cells, links, cellIndex, source);
-  return { format: FLOOR_FORMAT, name: doc.name, surfaces, cells, links };
+  const georeference = doc.georeference === undefined ? undefined : parseGeoreference(doc.georeference, source);
+  return { format: FLOOR_FORMAT, name: doc.name, surfaces, cells, links, ...(georeference ? { georeference } : {}) };
 }
 
 export const FLOOR_FORMAT = 'underfoot-floor/1';
-const TOP_KEYS = ['format', 'name', 'surfaces', 'cells', 'links'];
-const CELL_KEYS = ['id', 'surface', 'x', 'y', 'level', 'start'];
+const TOP_KEYS = ['format', 'name', 'surfaces', 'cells', 'links', 'georeference'];
+const CELL_KEYS = ['id', 'surface', 'x', 'y', 'level', 'start', 'zone'];
+const GEOREFERENCE_KEYS = ['lat', 'lon', 'bearing'];
 const LINK_KEYS = ['from', 'to', 'oneway'];
 
 type JsonObject = Record<string, unknown>;
@@ -126,8 +128,30 @@ function parseCells(value: unknown, surfaces: string[], source: string): FloorCe
     }
     const start = raw.start === undefined ? false : raw.start;
     if (typeof start !== 'boolean') throw new InputError(`${where} "start" must be true or false, got ${got(raw.start)}`);
-    return { id, surface: raw.surface, x: raw.x as number, y: raw.y as number, level, start };
+    if (raw.zone !== undefined && (typeof raw.zone !== 'string' || raw.zone === '')) {
+      throw new InputError(`${where} "zone" must be a non-empty string, got ${got(raw.zone)}`);
+    }
+    const cell: FloorCell = { id, surface: raw.surface, x: raw.x as number, y: raw.y as number, level, start };
+    if (raw.zone !== undefined) cell.zone = raw.zone as string;
+    return cell;
   });
+}
+
+/** `"georeference": {"lat", "lon", "bearing"}`: WGS 84 degrees of the x/y origin, x axis bearing clockwise from north. */
+function parseGeoreference(value: unknown, source: string): Georeference {
+  const where = `${source}: "georeference"`;
+  if (!isObject(value)) throw new InputError(`${where} must be an object with "lat", "lon" and "bearing", got ${got(value)}`);
+  checkKeys(value, GEOREFERENCE_KEYS, `${where} key`);
+  const ranges: Array<[keyof Georeference, string, (v: number) => boolean]> = [
+    ['lat', 'a number of degrees in [-90, 90]', (v) => v >= -90 && v <= 90],
+    ['lon', 'a number of degrees in [-180, 180]', (v) => v >= -180 && v <= 180],
+    ['bearing', 'a number of degrees in [0, 360) (the x axis, clockwise from north)', (v) => v >= 0 && v < 360],
+  ];
+  for (const [key, requirement, inRange] of ranges) {
+    const v = value[key];
+    if (typeof v !== 'number' || !Number.isFinite(v) || !inRange(v)) throw new InputError(`${where} "${key}" must be ${requirement}, got ${got(v)}`);
+  }
+  return { lat: value.lat as number, lon: value.lon as number, bearing: value.bearing as number };
 }
 
 function linkName(link: { from: string; to: string; oneway: boolean }): string {

@@ -37,7 +37,7 @@ export function parseModel(text: string, source: string): ModelFile {
   const dwell = new Float64Array(n);
   rawCells.forEach((raw, i) => {
     const c = asObject(raw, `cell ${i + 1}`, fail);
-    allowKeys(c, ['id', 'surface', 'x', 'y', 'level', 'start', 'dwell'], `cell ${i + 1}`, fail);
+    allowKeys(c, ['id', 'surface', 'x', 'y', 'level', 'zone', 'start', 'dwell'], `cell ${i + 1}`, fail);
     if (typeof c.id !== 'string' || c.id.length === 0) fail(`cell ${i + 1}: "id" must be a non-empty string, got ${quote(c.id)}`);
     const id = c.id as string;
     if (index.has(id)) fail(`cell ${quote(id)}: ids must be unique, got it twice`);
@@ -49,9 +49,10 @@ export function parseModel(text: string, source: string): ModelFile {
       if (typeof c[key] !== 'number' || !Number.isFinite(c[key])) fail(`cell ${quote(id)}: "${key}" must be a finite number, got ${quote(c[key])}`);
     }
     if (!Number.isInteger(c.level)) fail(`cell ${quote(id)}: "level" must be an integer, got ${quote(c.level)}`);
+    if (c.zone !== undefined && (typeof c.zone !== 'string' || c.zone.length === 0)) fail(`cell ${quote(id)}: "zone" must be a non-empty string, got ${quote(c.zone)}`);
     start[i] = probability(c.start, `cell ${quote(id)}: "start"`, fail);
     dwell[i] = probability(c.dwell, `cell ${quote(id)}: "dwell"`, fail);
-    cells.push({ id, surface: c.surface as string, x: c.x as number, y: c.y as number, level: c.level as number });
+    cells.push({ id, surface: c.surface as string, x: c.x as number, y: c.y as number, level: c.level as number, ...(c.zone !== undefined ? { zone: c.zone as string } : {}) });
   });
   checkSum(start, 'the start probabilities (cells\' "start")', fail);
 

@@ -1,4 +1,5 @@
 import type { SparseChain } from './sparse-chain.js';
+import { positionSummary, type PositionPass } from './position-summary.js';
 
 /**
  * Per-step summaries of the posterior over cells for the steps t1-1 … t0 of a segment, computed during
@@ -13,6 +14,9 @@ import type { SparseChain } from './sparse-chain.js';
  * - `likelyCellOut[t]` = argmax_i γ_t(i) (lowest index on ties), `likelyPOut[t]` its probability;
  * - `pathPOut[t]` = γ_t(path[t]), the posterior of the given path's cell (e.g. the Viterbi path);
  * - `entropyOut[t]` = −Σ_i γ_t(i) log2 γ_t(i), in bits.
+ *
+ * - with `position`: γ_t is copied into `position.gamma` and `positionSummary` writes the step's area
+ *   and position summaries (the outputs above are unchanged by it).
  *
  * `w` (nCells) holds ŵ_{t1} on entry (zeros when t1 = T) and ŵ_{t0} on return; `wSpare` is scratch of
  * the same size; T = `obs.length`. Same arithmetic as `backwardCountsSegment`. No allocation.
@@ -31,11 +35,13 @@ export function posteriorSummarySegment(
   likelyPOut: Float64Array,
   pathPOut: Float64Array,
   entropyOut: Float64Array,
+  position?: PositionPass,
 ): void {
   const { nCells: n, nReadings: m, dwell, outPtr, outIdx, outProb, emitT } = chain;
   const last = obs.length - 1;
   let next = w;
   let out = wSpare;
+  const gammaOut = position ? position.gamma : null;
   for (let t = t1 - 1; t >= t0; t--) {
     const row = (t - t0 + 1) * n;
     const o = obs[t];
@@ -59,12 +65,14 @@ export function posteriorSummarySegment(
       }
       if (g > 0) h -= g * Math.log2(g);
       if (i === onPath) pathP = g;
+      if (gammaOut) gammaOut[i] = g;
       out[i] = p * emitT[e + i] * b;
     }
     likelyCellOut[t] = bestI;
     likelyPOut[t] = best;
     pathPOut[t] = pathP;
     entropyOut[t] = h;
+    if (position) positionSummary(n, position, t);
     const swap = next;
     next = out;
     out = swap;

@@ -40,7 +40,7 @@ export function buildModel(floor: FloorGraph, options: BuildModelOptions = {}): 
   const surfaceOfCell = Int32Array.from(floor.cells, (c) => surfaceIndex.get(c.surface) ?? -1);
   return {
     surfaces: floor.surfaces.slice(),
-    cells: floor.cells.map((c) => ({ id: c.id, surface: c.surface, x: c.x, y: c.y, level: c.level })),
+    cells: floor.cells.map((c) => ({ id: c.id, surface: c.surface, x: c.x, y: c.y, level: c.level, ...(c.zone !== undefined ? { zone: c.zone } : {}) })),
     structure,
     start,
     trans: equalSplitTransitions(structure, dwell),

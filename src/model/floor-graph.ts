@@ -14,6 +14,18 @@ export interface FloorCell {
   level: number;
   /** True when runs may begin in this cell. */
   start: boolean;
+  /** Named area (room, corridor, lift) the cell belongs to; absent when the file gives none. */
+  zone?: string;
+}
+
+/**
+ * Where the floor's x/y frame sits on the Earth: the origin in WGS 84 degrees and the bearing of the
+ * x axis in degrees clockwise from north. Kept with the floor; nothing uses it yet.
+ */
+export interface Georeference {
+  lat: number;
+  lon: number;
+  bearing: number;
 }
 
 export interface FloorLink {
@@ -30,4 +42,6 @@ export interface FloorGraph {
   surfaces: string[];
   cells: FloorCell[];
   links: FloorLink[];
+  /** Optional; absent when the file gives none. */
+  georeference?: Georeference;
 }

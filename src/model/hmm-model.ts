@@ -28,6 +28,8 @@ export interface ModelCell {
   x: number;
   y: number;
   level: number;
+  /** The floor's zone of the cell; absent when it has none (model files then carry no "zone" key). */
+  zone?: string;
 }
 
 export interface HmmModel {

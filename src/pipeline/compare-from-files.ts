@@ -8,6 +8,7 @@ import { writeTable } from '../io/write-table.js';
 import type { OutputTable } from '../io/output-table.js';
 import type { ModelFile } from '../io/model-file.js';
 import { checkModelFloor } from '../model/check-model-floor.js';
+import { withFloorZones } from '../model/with-floor-zones.js';
 import { chainFromModel } from '../model/chain-from-model.js';
 import type { HmmModel } from '../model/hmm-model.js';
 import type { FloorGraph } from '../model/floor-graph.js';
@@ -137,7 +138,7 @@ export async function compareFromFiles(config: CompareConfig, onProgress?: (p: C
   const readings = runs.reduce((s, r) => s + r.readings, 0);
   const before = runs.reduce((s, r) => s + r.before, 0) / Math.max(1, readings);
   const after = runs.reduce((s, r) => s + r.after, 0) / Math.max(1, readings);
-  const refitFile: ModelFile = { name: old.name, model: refit, fit: record };
+  const refitFile: ModelFile = { name: old.name, model: withFloorZones(refit, floor), fit: record };
   let newFloor: FloorGraph | null = null;
   if (config.writeFloor) {
     const changed = new Map(changes.filter((c) => c.verdict === 'changed').map((c) => [c.cell, c.surfaceAfter]));

@@ -4,6 +4,7 @@ import { readFloor } from '../io/read-floor.js';
 import { writeTable } from '../io/write-table.js';
 import type { ModelFile } from '../io/model-file.js';
 import { checkModelFloor } from '../model/check-model-floor.js';
+import { withFloorZones } from '../model/with-floor-zones.js';
 import type { DecodeThresholds } from '../decode/decode-thresholds.js';
 import type { KeyColumns } from './key-columns.js';
 import { loadRuns } from './load-runs.js';
@@ -29,8 +30,12 @@ export interface DecodeOutcome {
 
 /** `decode`: reads a model and runs, decodes every run, writes the annotated table and run summary atomically. */
 export async function decodeFromFiles(config: DecodeConfig, preloaded?: ModelFile, skipAnnotated = false): Promise<DecodeOutcome> {
-  const file = preloaded ?? (await readModel(config.model));
-  if (config.floor) checkModelFloor(file.model, config.model, await readFloor(config.floor), config.floor);
+  let file = preloaded ?? (await readModel(config.model));
+  if (config.floor) {
+    const floor = await readFloor(config.floor);
+    checkModelFloor(file.model, config.model, floor, config.floor);
+    file = { ...file, model: withFloorZones(file.model, floor) };
+  }
   const loaded = await loadRuns(config.runs, { surfaces: file.model.surfaces, ...config.keys });
   const names = loaded.tables[0].columns.map((c) => c.name).join(',');
   for (const t of loaded.tables.slice(1)) {

@@ -3,6 +3,9 @@ import { chainFromModel } from '../model/chain-from-model.js';
 import { logChain } from '../decode/log-chain.js';
 import { decodeRun } from '../decode/decode-run.js';
 import { summarizeRun, flagText, type RunSummary } from '../decode/summarize-run.js';
+import { positionLayout } from '../decode/position-layout.js';
+import { summarizeZones, type ZoneSummary } from '../decode/summarize-zones.js';
+import { positionColumns } from './position-columns.js';
 import type { DecodeThresholds } from '../decode/decode-thresholds.js';
 import type { RunsTable } from '../io/runs-table.js';
 import type { OutputTable, OutputColumn } from '../io/output-table.js';
@@ -10,7 +13,7 @@ import type { OutputTable, OutputColumn } from '../io/output-table.js';
 export interface DecodedTables {
   annotated: OutputTable;
   summary: OutputTable;
-  summaries: Array<RunSummary & { run: string; split: string }>;
+  summaries: Array<RunSummary & ZoneSummary & { run: string; split: string }>;
   /** Runs impossible under the model, for a warning. */
   impossibleRuns: string[];
 }
@@ -19,11 +22,13 @@ export interface DecodedTables {
  * Decodes every run of the tables and builds the annotated table (every input row in input order, input
  * columns first, then the contract's columns) and the run summary. `splitOf` tells each run's split.
  * Steps that were missing from the input (gaps) are decoded as dropouts but have no input row, so they
- * appear in the summary's counts only.
+ * appear in the summary's counts only (`gap_steps`). The zone and position columns come after the
+ * contract's first columns (`position-columns.ts`); zone columns are empty when the model has no zones.
  */
 export function decodeRuns(model: HmmModel, tables: RunsTable[], th: DecodeThresholds, splitOf: (run: string) => string): DecodedTables {
   const chain = chainFromModel(model);
   const log = logChain(chain);
+  const layout = positionLayout(model);
   const nRows = tables.reduce((s, t) => s + t.nRows, 0);
   const pathCell = new Int32Array(nRows).fill(-1);
   const pathP = new Float64Array(nRows).fill(NaN);
@@ -32,15 +37,22 @@ export function decodeRuns(model: HmmModel, tables: RunsTable[], th: DecodeThres
   const entropy = new Float64Array(nRows).fill(NaN);
   const surprise = new Float64Array(nRows).fill(NaN);
   const flags = new Uint8Array(nRows);
+  const likelyZone = new Int32Array(nRows).fill(-1);
+  const zoneP = new Float64Array(nRows).fill(NaN);
+  const meanLevel = new Int32Array(nRows).fill(-1);
+  const meanX = new Float64Array(nRows).fill(NaN);
+  const meanY = new Float64Array(nRows).fill(NaN);
+  const spread = new Float64Array(nRows).fill(NaN);
   const summaries: DecodedTables['summaries'] = [];
   const impossibleRuns: string[] = [];
   let base = 0;
   for (const table of tables) {
     for (const run of table.runs) {
-      const dec = decodeRun(chain, log, run.obs);
+      const dec = decodeRun(chain, log, run.obs, { positions: layout.groups });
       const stepFlags = new Uint8Array(run.obs.length);
       const summary = summarizeRun(run.obs, dec, th, stepFlags);
-      summaries.push({ run: run.id, split: splitOf(run.id), ...summary });
+      summaries.push({ run: run.id, split: splitOf(run.id), ...summary, ...summarizeZones(run.rows, dec, th, layout.hasZones) });
+      const pos = dec.positions!;
       if (dec.logLik === -Infinity) impossibleRuns.push(run.id);
       for (let t = 0; t < run.obs.length; t++) {
         const row = run.rows[t];
@@ -53,6 +65,12 @@ export function decodeRuns(model: HmmModel, tables: RunsTable[], th: DecodeThres
         entropy[g] = dec.entropyBits[t];
         surprise[g] = dec.surpriseBits[t];
         flags[g] = stepFlags[t];
+        likelyZone[g] = pos.likelyZone[t];
+        zoneP[g] = pos.zoneP[t];
+        meanLevel[g] = pos.meanLevel[t];
+        meanX[g] = pos.meanX[t];
+        meanY[g] = pos.meanY[t];
+        spread[g] = pos.spreadM[t];
       }
     }
     base += table.nRows;
@@ -82,6 +100,7 @@ export function decodeRuns(model: HmmModel, tables: RunsTable[], th: DecodeThres
       { name: 'entropy_bits', kind: 'float64', get: num(entropy) },
       { name: 'surprise_bits', kind: 'float64', get: num(surprise) },
       { name: 'flag', kind: 'utf8', get: (row) => flagText(flags[row]) },
+      ...positionColumns(model, layout, { pathCell, likelyZone, zoneP, meanLevel, meanX, meanY, spread }),
     ],
   };
   const finite = (v: number) => (Number.isFinite(v) ? v : null);
@@ -98,6 +117,9 @@ export function decodeRuns(model: HmmModel, tables: RunsTable[], th: DecodeThres
       { name: 'mean_path_p', kind: 'float64', get: (r) => finite(summaries[r].meanPathP) },
       { name: 'low_confidence_steps', kind: 'int32', get: (r) => summaries[r].lowConfidenceSteps },
       { name: 'surprising_steps', kind: 'int32', get: (r) => summaries[r].surprisingSteps },
+      { name: 'gap_steps', kind: 'int32', get: (r) => summaries[r].gapSteps },
+      { name: 'mean_zone_p', kind: 'float64', get: (r) => finite(summaries[r].meanZoneP) },
+      { name: 'low_confidence_zone_steps', kind: 'int32', get: (r) => (layout.hasZones ? summaries[r].lowConfidenceZoneSteps : null) },
     ],
   };
   return { annotated, summary, summaries, impossibleRuns };

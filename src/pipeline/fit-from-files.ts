@@ -5,6 +5,7 @@ import { formatModel } from '../io/format-model.js';
 import { writeFileAtomic } from '../io/write-atomic.js';
 import type { ModelFile } from '../io/model-file.js';
 import { checkModelFloor } from '../model/check-model-floor.js';
+import { withFloorZones } from '../model/with-floor-zones.js';
 import { fitModel, type FitProgress } from '../fit/fit-model.js';
 import type { FitOptions } from '../fit/fit-record.js';
 import type { KeyColumns } from './key-columns.js';
@@ -59,7 +60,7 @@ export async function fitFromFiles(config: FitConfig, onProgress?: (p: FitProgre
     onProgress,
     { checkpoint: config.checkpoint ? new CheckpointDir(config.checkpoint) : undefined, signal: config.signal },
   );
-  const file: ModelFile = { name: floor.name, model: result.model, fit: result.record };
+  const file: ModelFile = { name: floor.name, model: withFloorZones(result.model, floor), fit: result.record };
   await writeFileAtomic(config.out, formatModel(file));
   return { file, warnings: loaded.warnings, nRuns: loaded.runs.length };
 }

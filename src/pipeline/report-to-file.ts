@@ -8,6 +8,7 @@ import { writeFileAtomic } from '../io/write-atomic.js';
 import type { ModelFile } from '../io/model-file.js';
 import { InputError, quote } from '../errors.js';
 import { checkModelFloor } from '../model/check-model-floor.js';
+import { withFloorZones } from '../model/with-floor-zones.js';
 import type { AmbiguityOptions } from '../report/estimate-ambiguity.js';
 import type { ReportData } from '../report/report-data.js';
 import { columnsFromBytes } from '../report/columns-from-bytes.js';
@@ -49,10 +50,13 @@ export interface ReportOutcome {
  */
 export async function reportToFile(config: ReportConfig, preloaded?: ModelFile): Promise<ReportOutcome> {
   if (!/\.html?$/i.test(config.out)) throw new InputError(`${config.out}: the report file name must end in .html, got ${quote(basename(config.out))}`);
-  const modelFile = preloaded ?? (await readModel(config.model));
-  const model = modelFile.model;
+  let modelFile = preloaded ?? (await readModel(config.model));
   const floor = config.floor ? await readFloor(config.floor) : null;
-  if (floor && config.floor) checkModelFloor(model, config.model, floor, config.floor);
+  if (floor && config.floor) {
+    checkModelFloor(modelFile.model, config.model, floor, config.floor);
+    modelFile = { ...modelFile, model: withFloorZones(modelFile.model, floor) };
+  }
+  const model = modelFile.model;
   const annotated = config.annotated
     ? await readRuns(config.annotated, { surfaces: model.surfaces, runCol: config.keys.runCol, stepCol: config.keys.stepCol, readingCol: config.keys.readingCol, unknownReadings: config.keys.unknownReadings })
     : null;
