@@ -10,7 +10,8 @@
  * rooms are joined only at the doorways listed below; the two lift cells are joined to each other; the
  * stairway landings are not (robots cannot climb stairs). Before writing, the script checks the contract's
  * validity rules and reachability and stops with an error if any fails; then it parses the written text
- * back with the tool's own reader (`parseFloor`).
+ * back with the tool's own reader (`parseFloor`). Every cell carries its room's name as its `zone`,
+ * except the two lift cars, which share the zone "Lift" across both levels (the shaft links them).
  *
  * This is a development script outside `src/`, so it writes its two output files itself.
  */
@@ -35,6 +36,8 @@ interface Room {
   h: number;
   /** Surface of the cell at grid column `col`, row `row` (level coordinates). */
   surface: (col: number, row: number) => Surface;
+  /** The cells' zone; the room's name when not given. */
+  zone?: string;
   /** Grid positions `[col, row]` of cells where runs may begin (the robots' docks). */
   docks?: Array<[number, number]>;
 }
@@ -72,7 +75,7 @@ const ROOMS: Room[] = [
     docks: [[0, 9], [1, 9], [2, 9], [3, 9]],
   },
   { level: 0, code: 'WKS', name: 'Workshop', x0: 4, y0: 7, w: 5, h: 3, surface: all('concrete') },
-  { level: 0, code: 'LFT', name: 'Lift car (ground stop)', x0: 9, y0: 7, w: 1, h: 1, surface: all('rubber') },
+  { level: 0, code: 'LFT', name: 'Lift car (ground stop)', zone: 'Lift', x0: 9, y0: 7, w: 1, h: 1, surface: all('rubber') },
   { level: 0, code: 'STR', name: 'Stair landing (ground)', x0: 10, y0: 7, w: 2, h: 1, surface: all('concrete') },
   { level: 0, code: 'BOX', name: 'Box office', x0: 12, y0: 7, w: 3, h: 3, surface: all('carpet') },
 
@@ -87,7 +90,7 @@ const ROOMS: Room[] = [
     surface: (col) => (col < 10 ? 'laminate' : 'carpet'),
   },
   { level: 1, code: 'REH', name: 'Rehearsal room', x0: 0, y0: 7, w: 6, h: 2, surface: all('rubber') },
-  { level: 1, code: 'LFT', name: 'Lift car (first stop)', x0: 9, y0: 7, w: 1, h: 1, surface: all('rubber') },
+  { level: 1, code: 'LFT', name: 'Lift car (first stop)', zone: 'Lift', x0: 9, y0: 7, w: 1, h: 1, surface: all('rubber') },
   { level: 1, code: 'STR', name: 'Stair landing (first)', x0: 10, y0: 7, w: 2, h: 1, surface: all('concrete') },
   { level: 1, code: 'OFA', name: 'Offices A', x0: 12, y0: 7, w: 4, h: 3, surface: all('carpet') },
   { level: 1, code: 'OFB', name: 'Offices B', x0: 16, y0: 7, w: 4, h: 3, surface: all('carpet') },
@@ -162,7 +165,7 @@ export function buildQuillmoor(): FloorGraph {
         const id = `L${room.level}-${room.code}-${pad(col - room.x0)}-${pad(row - room.y0)}`;
         idAt.set(k, id);
         roomAt.set(k, room);
-        const cell: FloorCell = { id, surface: room.surface(col, row), x: col + 0.5, y: row + 0.5, level: room.level, start: docks.has(k) };
+        const cell: FloorCell = { id, surface: room.surface(col, row), x: col + 0.5, y: row + 0.5, level: room.level, start: docks.has(k), zone: room.zone ?? room.name };
         cells.push(cell);
         docks.delete(k);
         // Within a room: join to the west and south neighbours (each pair once, two-way).
@@ -252,7 +255,7 @@ function checkConfusion(): void {
 /** One cell or link per line, so diffs of the file stay readable. */
 function floorText(floor: FloorGraph): string {
   const cell = (c: FloorCell): string =>
-    JSON.stringify({ id: c.id, surface: c.surface, x: c.x, y: c.y, level: c.level, ...(c.start ? { start: true } : {}) });
+    JSON.stringify({ id: c.id, surface: c.surface, x: c.x, y: c.y, level: c.level, ...(c.start ? { start: true } : {}), ...(c.zone !== undefined ? { zone: c.zone } : {}) });
   const link = (l: FloorLink): string => JSON.stringify({ from: l.from, to: l.to, ...(l.oneway ? { oneway: true } : {}) });
   return [
     '{',
@@ -303,6 +306,8 @@ function main(): void {
     const rooms = new Set(cells.map((c) => c.id.split('-')[1]));
     console.log(`level ${level}: ${cells.length} cells in ${rooms.size} rooms`);
   }
+  const zones = new Set(floor.cells.map((c) => c.zone));
+  console.log(`zones ${zones.size}`);
   const bySurface = SURFACES.map((s) => `${s} ${floor.cells.filter((c) => c.surface === s).length}`).join(', ');
   console.log(`cells ${floor.cells.length} (${bySurface}); start cells ${floor.cells.filter((c) => c.start).length}`);
   console.log(`links ${floor.links.length} declared (${oneway} one-way), ${moves} directed moves`);

@@ -27,6 +27,10 @@ export function formatCheck(r: CheckReport): string {
     `  floor   ${f.nCells} cells · ${f.nLinks} links (${f.nDirectedLinks} directed moves) · levels ${f.levels.join(', ')} · ${f.parts} connected part${f.parts === 1 ? '' : 's'} · ${r.nStartCells ? `${r.nStartCells} start cells` : 'runs may start anywhere'}`,
   );
   if (f.unreachable.length) lines.push(`          ${f.unreachable.length} cells unreachable from the start cells`);
+  if (r.georeference) {
+    const g = r.georeference;
+    lines.push(`          origin at ${g.lat}° lat, ${g.lon}° lon (WGS 84), x axis bearing ${g.bearing}° from north`);
+  }
   lines.push('');
   const surfaces = Object.keys(f.surfaceCounts);
   const rows: Array<Array<string | number>> = surfaces.map((s) => [s, f.surfaceCounts[s], r.runs ? r.runs.readingCounts[s] : '']);
@@ -37,6 +41,18 @@ export function formatCheck(r: CheckReport): string {
       .map((l) => '  ' + l)
       .join('\n'),
   );
+  if (f.zones.length) {
+    lines.push('');
+    const zoneRows: Array<Array<string | number>> = f.zones.map((z) => [z.zone, z.cells, z.parts === 1 ? '' : `${z.parts} parts`]);
+    if (f.unzonedCells) zoneRows.push(['(no zone)', f.unzonedCells, 'each decoded as an area of its own']);
+    lines.push(
+      formatTable(['zone', 'cells', ''], zoneRows)
+        .trimEnd()
+        .split('\n')
+        .map((l) => '  ' + l)
+        .join('\n'),
+    );
+  }
   if (r.runs) {
     const u = r.runs;
     lines.push('');

@@ -1,4 +1,5 @@
 import type { FloorGraph } from './floor-graph.js';
+import { analyzeZones, type ZoneCount } from './analyze-zones.js';
 
 /** Summary of a floor graph for `check`: sizes, levels, connectivity and the warnings to print. */
 export interface FloorAnalysis {
@@ -15,6 +16,10 @@ export interface FloorAnalysis {
   unreachable: string[];
   /** Cells per surface, for every surface of the floor (zero included), in the floor's surface order. */
   surfaceCounts: Record<string, number>;
+  /** Zones with their cell counts and parts, in file order; empty when the floor has no zones. */
+  zones: ZoneCount[];
+  /** Cells without a zone on a floor that has zones (0 when it has none). */
+  unzonedCells: number;
   /** One readable line per finding (disconnected parts, unreachable cells). */
   warnings: string[];
 }
@@ -79,6 +84,9 @@ export function analyzeFloor(floor: FloorGraph): FloorAnalysis {
     warnings.push(`${unreachable.length} of ${nCells} cells cannot be reached from any start cell: ${listIds(unreachable)}`);
   }
 
+  const zoneAnalysis = analyzeZones(floor);
+  warnings.push(...zoneAnalysis.warnings);
+
   let nDirectedLinks = 0;
   for (const link of floor.links) nDirectedLinks += link.oneway ? 1 : 2;
   return {
@@ -89,6 +97,8 @@ export function analyzeFloor(floor: FloorGraph): FloorAnalysis {
     parts: partSize.size,
     unreachable,
     surfaceCounts,
+    zones: zoneAnalysis.zones,
+    unzonedCells: zoneAnalysis.unzonedCells,
     warnings,
   };
 }

@@ -1,5 +1,6 @@
 import { readFloor } from '../io/read-floor.js';
 import { analyzeFloor, type FloorAnalysis } from '../model/analyze-floor.js';
+import type { Georeference } from '../model/floor-graph.js';
 import type { KeyColumns } from './key-columns.js';
 import { loadRuns } from './load-runs.js';
 
@@ -23,6 +24,8 @@ export interface CheckReport {
   name: string;
   floor: FloorAnalysis;
   nStartCells: number;
+  /** The floor's georeference, null when it has none. */
+  georeference: Georeference | null;
   runs: RunsCheck | null;
   warnings: string[];
 }
@@ -74,5 +77,5 @@ export async function checkInputs(floorPath: string, runPaths: string[], keys: K
     if (tiny) warnings.push(`${tiny} run(s) have a single step: they say little about movement`);
     if (gapSteps) warnings.push(`${gapSteps} step(s) are missing from the runs (gaps in "step"); they are decoded as dropouts`);
   }
-  return { floorFile: floorPath, name: floor.name, floor: analysis, nStartCells: floor.cells.filter((c) => c.start).length, runs, warnings };
+  return { floorFile: floorPath, name: floor.name, floor: analysis, nStartCells: floor.cells.filter((c) => c.start).length, georeference: floor.georeference ?? null, runs, warnings };
 }
