@@ -42,16 +42,19 @@ export function formatCheck(r: CheckReport): string {
       .join('\n'),
   );
   if (f.zones.length) {
+    // Zones as a wrapped list (a building has many): name, cell count, and how many parts when split.
+    const items = f.zones.map((z) => `${z.zone} (${z.cells}${z.parts > 1 ? `, ${z.parts} parts` : ''})`);
+    if (f.unzonedCells) items.push(`no zone (${f.unzonedCells}, each its own area)`);
     lines.push('');
-    const zoneRows: Array<Array<string | number>> = f.zones.map((z) => [z.zone, z.cells, z.parts === 1 ? '' : `${z.parts} parts`]);
-    if (f.unzonedCells) zoneRows.push(['(no zone)', f.unzonedCells, 'each decoded as an area of its own']);
-    lines.push(
-      formatTable(['zone', 'cells', ''], zoneRows)
-        .trimEnd()
-        .split('\n')
-        .map((l) => '  ' + l)
-        .join('\n'),
-    );
+    let line = `  zones   ${f.zones.length} zone${f.zones.length === 1 ? '' : 's'} (cell counts):`;
+    for (const item of items) {
+      if (line.length + item.length + 3 > 100) {
+        lines.push(line);
+        line = '         ';
+      }
+      line += line.endsWith(':') || line.trim() === '' ? ` ${item}` : ` · ${item}`;
+    }
+    lines.push(line);
   }
   if (r.runs) {
     const u = r.runs;
