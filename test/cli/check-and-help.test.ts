@@ -25,6 +25,9 @@ describe('check', () => {
     expect(report.floor.nCells).toBe(250);
     expect(report.floor.levels).toEqual([0, 1]);
     expect(report.runs.runs).toBe(60);
+    expect(report.floor.zones).toHaveLength(20);
+    expect(report.floor.zones[0]).toEqual({ zone: 'Gallery', cells: 24, parts: 1 });
+    expect(report.floor.unzonedCells).toBe(0);
   });
 });
 

@@ -136,7 +136,7 @@ describe('parseFloor(text, source) errors (one per case in the contract)', () =>
   it('parseFloor(text) rejects an unknown top-level key', () => {
     expectDocError(
       (doc) => (doc.link = []),
-      'depot/floor.json: top-level key must be one of "format", "name", "surfaces", "cells", "links", got "link"',
+      'depot/floor.json: top-level key must be one of "format", "name", "surfaces", "cells", "links", "georeference", got "link"',
     );
   });
 
@@ -208,7 +208,7 @@ describe('parseFloor(text, source) errors (one per case in the contract)', () =>
   it('parseFloor(text) rejects an unknown key in a cell', () => {
     expectDocError(
       (doc) => (cells(doc)[1].levle = 2),
-      'depot/floor.json: cell "A2" (cells[1]) key must be one of "id", "surface", "x", "y", "level", "start", got "levle"',
+      'depot/floor.json: cell "A2" (cells[1]) key must be one of "id", "surface", "x", "y", "level", "start", "zone", got "levle"',
     );
   });
 

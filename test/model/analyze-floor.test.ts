@@ -44,6 +44,8 @@ describe('analyzeFloor(floor)', () => {
       parts: 1,
       unreachable: [],
       surfaceCounts: { tile: 2, rubber: 1, carpet: 0 },
+      zones: [],
+      unzonedCells: 0,
       warnings: [],
     });
   });
