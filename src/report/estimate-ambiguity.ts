@@ -52,6 +52,27 @@ export interface AmbiguityEstimate {
   ambiguous: Uint8Array;
   /** Simulated steps in all. */
   nSteps: number;
+  /** Per named zone (index into `zones`; empty when the model has no zones), the same figures for zones. */
+  zones: ZoneAmbiguity[];
+}
+
+/** How well decoding recovers one zone: the mean posterior of the true zone while the robot is in it. */
+export interface ZoneAmbiguity {
+  zone: string;
+  /** Cells of the zone. */
+  cells: number;
+  /** Simulated steps spent in the zone. */
+  visits: number;
+  /** Mean posterior probability of the zone (summed over its cells) while the robot is in it; NaN if never visited. */
+  recovery: number;
+  /** Visit-weighted mean recovery of the zone's cells (cell level, for comparison). */
+  cellRecovery: number;
+  /** The other zone holding the most posterior while the robot is in this one; -1 if none. */
+  confusedWith: number;
+  /** Mean posterior of `confusedWith` while the robot is in this zone. */
+  confusedP: number;
+  /** 1 when visited at least `minVisits` times and recovered less than `threshold`. */
+  ambiguous: boolean;
 }
 
 /** Posterior probabilities below this are not tallied as confusions (keeps the tally sparse). */
@@ -94,6 +115,16 @@ export function estimateAmbiguity(model: HmmModel, options: Partial<AmbiguityOpt
   const beta = new Float64Array(n * T);
   const gamma = new Float64Array(n * T);
   const scale = new Float64Array(T);
+  // Named zones: index per cell (-1 without a zone).
+  const zoneNames = [...new Set(model.cells.flatMap((c) => (c.zone === undefined ? [] : [c.zone])))];
+  const zoneIndex = new Map(zoneNames.map((z, k) => [z, k] as const));
+  const zoneOf = Int32Array.from(model.cells, (c) => (c.zone === undefined ? -1 : (zoneIndex.get(c.zone) as number)));
+  const nZones = zoneNames.length;
+  const zoneMass = new Float64Array(nZones);
+  const zoneVisits = new Float64Array(nZones);
+  const zoneRecoverySum = new Float64Array(nZones);
+  const zoneCellRecoverySum = new Float64Array(nZones);
+  const zoneConfusion = new Float64Array(nZones * nZones);
   const rng = new SeededRandom(o.seed);
   let nSteps = 0;
   for (let r = 0; r < o.runs; r++) {
@@ -114,15 +145,24 @@ export function estimateAmbiguity(model: HmmModel, options: Partial<AmbiguityOpt
       const tl = levels[truth];
       let err = 0;
       const tally = confusion[truth];
+      zoneMass.fill(0);
       for (let j = 0; j < n; j++) {
         const g = gamma[row + j];
         if (g === 0) continue;
+        if (zoneOf[j] >= 0) zoneMass[zoneOf[j]] += g;
         const dx = xs[j] - tx;
         const dy = ys[j] - ty;
         err += g * (Math.sqrt(dx * dx + dy * dy) + Math.abs(levels[j] - tl) * o.levelGapM);
         if (g >= CONFUSION_FLOOR && j !== truth) tally.set(j, (tally.get(j) ?? 0) + g);
       }
       errorSum[truth] += err;
+      const tz = zoneOf[truth];
+      if (tz >= 0) {
+        zoneVisits[tz]++;
+        zoneRecoverySum[tz] += zoneMass[tz];
+        zoneCellRecoverySum[tz] += gamma[row + truth];
+        for (let z = 0; z < nZones; z++) zoneConfusion[tz * nZones + z] += zoneMass[z];
+      }
     }
     nSteps += T;
   }
@@ -149,5 +189,27 @@ export function estimateAmbiguity(model: HmmModel, options: Partial<AmbiguityOpt
     confusedP[i] = v > 0 ? bestMass / v : NaN;
     ambiguous[i] = v >= o.minVisits && recovery[i] < o.threshold ? 1 : 0;
   }
-  return { options: o, visits, recovery, nearRecovery, errorM, confusedWith, confusedP, ambiguous, nSteps };
+  const zones = zoneNames.map((zone, z): ZoneAmbiguity => {
+    const v = zoneVisits[z];
+    let best = -1;
+    let bestMass = 0;
+    for (let w = 0; w < nZones; w++) {
+      if (w !== z && zoneConfusion[z * nZones + w] > bestMass) {
+        best = w;
+        bestMass = zoneConfusion[z * nZones + w];
+      }
+    }
+    const rec = v > 0 ? zoneRecoverySum[z] / v : NaN;
+    return {
+      zone,
+      cells: model.cells.filter((c) => c.zone === zone).length,
+      visits: v,
+      recovery: rec,
+      cellRecovery: v > 0 ? zoneCellRecoverySum[z] / v : NaN,
+      confusedWith: best,
+      confusedP: v > 0 ? bestMass / v : NaN,
+      ambiguous: v >= o.minVisits && rec < o.threshold,
+    };
+  });
+  return { options: o, visits, recovery, nearRecovery, errorM, confusedWith, confusedP, ambiguous, nSteps, zones };
 }

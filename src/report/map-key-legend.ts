@@ -10,5 +10,6 @@ export function mapKeyLegend(model: HmmModel, geometry: FloorGeometry): string {
   if (geometry.crossLinks.length) swatches.push({ colour: INK, label: 'link to another level (hover for where)', mark: 'dot' });
   const nStart = model.start.reduce((a, p) => a + (p > 0 ? 1 : 0), 0);
   if (nStart < model.cells.length) swatches.push({ colour: INK, label: 'runs may start here', mark: 'notch' });
+  if (model.cells.some((c) => c.zone !== undefined)) swatches.push({ colour: INK, label: 'zone border (zone names at their centres)', mark: 'outline' });
   return htmlSwatchLegend(swatches);
 }

@@ -1,7 +1,7 @@
 import { INK, MUTED_INK } from './palette.js';
 
 /** Every overlay key of the page (floor map and ambiguity maps); each gets its radio-button rules. */
-const OVERLAY_KEYS = ['surface', 'visits', 'confidence', 'changes', 'recovery', 'error'];
+const OVERLAY_KEYS = ['surface', 'visits', 'confidence', 'changes', 'recovery', 'zone-recovery', 'error'];
 
 /**
  * The report's style sheet (inline: the page loads nothing). System fonts only. Overlays are switched

@@ -14,7 +14,9 @@ const MAX_LISTED = 15;
 
 /**
  * Section 5: how often decoding recovers each cell, from runs simulated from the fitted model; maps with
- * the ambiguous cells hatched, and the least recoverable cells with the cell they are mistaken for.
+ * the ambiguous cells hatched, and the least recoverable cells with the cell they are mistaken for. When
+ * the model has zones: the same per zone (recovery of the true zone, on the map and in a table) — which
+ * zones a planner can trust where single cells cannot be told apart.
  */
 export function sectionAmbiguity(d: ReportData): string {
   const { model } = d.modelFile;
@@ -37,6 +39,18 @@ export function sectionAmbiguity(d: ReportData): string {
     return `${ids[i]}: recovered ${formatNumber(a.recovery[i], 'pct')} of the time, within one link ${formatNumber(a.nearRecovery[i], 'pct')}, expected error ${formatNumber(a.errorM[i], 'g')} m${partner}${a.ambiguous[i] ? ' (ambiguous)' : ''}`;
   };
   const unratedCell = (i: number): boolean => a.visits[i] < o.minVisits;
+  const zones = a.zones;
+  const zoneIndex = new Map(zones.map((z, k) => [z.zone, k] as const));
+  const zoneOfCell = (i: number): number => (model.cells[i].zone === undefined ? -1 : (zoneIndex.get(model.cells[i].zone as string) ?? -1));
+  const unratedZone = (k: number): boolean => k < 0 || zones[k].visits < o.minVisits;
+  const describeZone = (i: number): string => {
+    const k = zoneOfCell(i);
+    if (k < 0) return `${ids[i]}: no zone`;
+    const z = zones[k];
+    if (unratedZone(k)) return `zone ${z.zone} (${ids[i]}): only ${z.visits} simulated visits, not rated`;
+    const partner = z.confusedWith >= 0 ? `; most often mistaken for ${zones[z.confusedWith].zone} (${formatNumber(z.confusedP, 'p')})` : '';
+    return `zone ${z.zone} (${ids[i]}): recovered ${formatNumber(z.recovery, 'pct')} of the time (its cells ${formatNumber(z.cellRecovery, 'pct')})${partner}${z.ambiguous ? ' (ambiguous)' : ''}`;
+  };
   const layers: MapLayer[] = [
     {
       key: 'recovery',
@@ -45,6 +59,17 @@ export function sectionAmbiguity(d: ReportData): string {
       hatch: (i) => (a.ambiguous[i] ? 'dark' : false),
       title: describe,
     },
+    ...(zones.length
+      ? [
+          {
+            key: 'zone-recovery',
+            fill: (i: number) => (unratedZone(zoneOfCell(i)) ? NO_DATA_COLOUR : rampColour(zones[zoneOfCell(i)].recovery)),
+            noData: (i: number) => unratedZone(zoneOfCell(i)),
+            hatch: (i: number) => (zoneOfCell(i) >= 0 && zones[zoneOfCell(i)].ambiguous ? ('dark' as const) : false),
+            title: describeZone,
+          },
+        ]
+      : []),
     {
       key: 'error',
       fill: (i) => (unratedCell(i) ? NO_DATA_COLOUR : rampColour(1 - a.errorM[i] / maxError)),
@@ -62,10 +87,18 @@ export function sectionAmbiguity(d: ReportData): string {
   const hatchSwatch = { colour: rampColour(0.2), label: `ambiguous (recovered less than ${formatNumber(o.threshold, 'pct')} of the time)`, mark: 'hatch' } as const;
   const switcher =
     '<div class="overlays">' +
-    '<input type="radio" name="amb-overlay" id="ov-recovery" class="ov-radio" checked><input type="radio" name="amb-overlay" id="ov-error" class="ov-radio">' +
-    '<div class="ov-tabs" role="group" aria-label="Ambiguity overlay"><label for="ov-recovery" class="ov-tab">Cell recovery</label><label for="ov-error" class="ov-tab">Expected position error</label></div>' +
+    '<input type="radio" name="amb-overlay" id="ov-recovery" class="ov-radio" checked>' +
+    (zones.length ? '<input type="radio" name="amb-overlay" id="ov-zone-recovery" class="ov-radio">' : '') +
+    '<input type="radio" name="amb-overlay" id="ov-error" class="ov-radio">' +
+    `<div class="ov-tabs" role="group" aria-label="Ambiguity overlay"><label for="ov-recovery" class="ov-tab">Cell recovery</label>${zones.length ? '<label for="ov-zone-recovery" class="ov-tab">Zone recovery</label>' : ''}<label for="ov-error" class="ov-tab">Expected position error</label></div>` +
     '<div class="ov-legends">' +
     `<div class="ov-legend lg-recovery"><div class="legend-row">${svgRampLegend({ title: 'recovery: probability of the true cell', domain: [0, 1], format: (v) => formatNumber(v, 'g'), idPrefix: 'lg-recovery' })}${htmlSwatchLegend([hatchSwatch, unratedSwatch])}</div></div>` +
+    (zones.length
+      ? `<div class="ov-legend lg-zone-recovery"><div class="legend-row">${svgRampLegend({ title: 'zone recovery: probability of the true zone', domain: [0, 1], format: (v) => formatNumber(v, 'g'), idPrefix: 'lg-zone-recovery' })}${htmlSwatchLegend([
+          { colour: rampColour(0.2), label: `ambiguous zone (recovered less than ${formatNumber(o.threshold, 'pct')} of the time)`, mark: 'hatch' },
+          { colour: NO_DATA_COLOUR, label: `no zone, or fewer than ${o.minVisits} simulated visits`, mark: 'dashed' },
+        ])}</div></div>`
+      : '') +
     `<div class="ov-legend lg-error"><div class="legend-row">${svgRampLegend({ title: 'expected distance from the true cell (m)', domain: [0, maxError], format: (v) => formatNumber(v, 'g'), reverse: true, idPrefix: 'lg-error' })}${htmlSwatchLegend([unratedSwatch])}</div></div>` +
     '</div>' +
     `<div class="maps">${maps}</div></div>`;
@@ -83,6 +116,30 @@ export function sectionAmbiguity(d: ReportData): string {
     ],
     worst,
   );
+  const zoneOrder = zones.map((_, k) => k).sort((x, y) => {
+    const rx = unratedZone(x) ? Infinity : zones[x].recovery;
+    const ry = unratedZone(y) ? Infinity : zones[y].recovery;
+    return rx - ry || x - y;
+  });
+  const ratedZones = zoneOrder.filter((k) => !unratedZone(k));
+  const trusted = ratedZones.filter((k) => !zones[k].ambiguous).length;
+  const zoneTable = zones.length
+    ? `<h3>Zones: which a planner can trust</h3>` +
+      `<p class="caption">Per zone, the mean posterior probability of the true zone (summed over its cells) while a simulated robot was in it, beside the mean recovery of its cells. ${trusted} of ${ratedZones.length} rated zones are recovered at least ${formatNumber(o.threshold, 'pct')} of the time; the least recoverable come first.</p>` +
+      htmlTable(
+        [
+          { header: 'zone', text: (k: number) => zones[k].zone },
+          { header: 'cells', text: (k) => formatNumber(zones[k].cells, 'int'), numeric: true },
+          { header: 'simulated visits', text: (k) => formatNumber(zones[k].visits, 'int'), numeric: true },
+          { header: 'zone recovered', text: (k) => (unratedZone(k) ? 'not rated' : formatNumber(zones[k].recovery, 'pct')), numeric: true },
+          { header: 'its cells recovered', text: (k) => (unratedZone(k) ? '–' : formatNumber(zones[k].cellRecovery, 'pct')), numeric: true },
+          { header: 'most often mistaken for', text: (k) => (zones[k].confusedWith >= 0 ? zones[zones[k].confusedWith].zone : '–') },
+          { header: 'P(that zone)', text: (k) => (zones[k].confusedWith >= 0 ? formatNumber(zones[k].confusedP, 'p') : '–'), numeric: true },
+          { header: 'trust', text: (k) => (unratedZone(k) ? '–' : zones[k].ambiguous ? 'ambiguous' : 'yes') },
+        ],
+        zoneOrder,
+      )
+    : '';
   const recov = rated.map((i) => a.recovery[i]);
   const near = rated.map((i) => a.nearRecovery[i]);
   const err = rated.map((i) => a.errorM[i]);
@@ -93,6 +150,7 @@ export function sectionAmbiguity(d: ReportData): string {
     htmlCard('median recovery', formatNumber(median(recov), 'pct'), 'posterior probability of the true cell') +
     htmlCard('median within one link', formatNumber(median(near), 'pct'), 'true cell or a linked neighbour') +
     htmlCard('median expected error', `${formatNumber(median(err), 'g')} m`, `planar distance, +${o.levelGapM} m per level`) +
+    (zones.length ? htmlCard('median zone recovery', formatNumber(median(ratedZones.map((k) => zones[k].recovery)), 'pct'), `posterior probability of the true zone (${ratedZones.length} zones rated)`) : '') +
     `</div>`;
   return (
     '<section id="ambiguity" aria-labelledby="ambiguity-h">' +
@@ -102,6 +160,7 @@ export function sectionAmbiguity(d: ReportData): string {
     switcher +
     `<h3>Least recoverable cells</h3>` +
     table +
+    zoneTable +
     '</section>'
   );
 }

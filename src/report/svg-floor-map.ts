@@ -2,6 +2,7 @@ import type { HmmModel } from '../model/hmm-model.js';
 import type { FloorGeometry, LevelGeometry } from './floor-geometry.js';
 import { escapeHtml } from './escape-html.js';
 import { INK, MUTED_INK } from './palette.js';
+import { svgZoneOutlines } from './svg-zone-outlines.js';
 
 /** One way of colouring the cells (an overlay). */
 export interface MapLayer {
@@ -34,7 +35,7 @@ const CELL_SHARE = 0.66;
  * One level of the floor as an SVG: cells as squares at their coordinates (north up), two-way links as
  * lines between neighbouring centres (seen in the gaps between squares), one-way links as arrows drawn
  * over the cells, links to other levels as a dot in the cell's corner, start cells with a notch, and a
- * scale bar. Each layer is a `<g class="layer layer-<key>">` of cell squares, so the page can switch
+ * scale bar; zones outlined and named over every layer (`svgZoneOutlines`). Each layer is a `<g class="layer layer-<key>">` of cell squares, so the page can switch
  * overlays with CSS alone.
  */
 export function svgFloorMap(model: HmmModel, geometry: FloorGeometry, level: LevelGeometry, layers: MapLayer[], options: FloorMapOptions): string {
@@ -82,6 +83,7 @@ export function svgFloorMap(model: HmmModel, geometry: FloorGeometry, level: Lev
     }
     parts.push('</g>');
   }
+  parts.push(svgZoneOutlines(model, level, { px, py, pxPerM: s, pitch, width }));
   // Start cells: a small notch in the lower-left corner (only when runs may not start anywhere).
   const nStart = model.start.reduce((a, p) => a + (p > 0 ? 1 : 0), 0);
   if (nStart < cells.length) {
