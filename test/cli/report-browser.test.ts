@@ -18,8 +18,9 @@ const FLAGS = ['--headless', '--no-sandbox', '--disable-gpu', '--disable-quic', 
 /** Where the screenshot is left for people to look at. */
 const SCREENSHOT_DIR = join(tmpdir(), 'underfoot-test-output');
 
-/** The invented Larkspur Reading Rooms: two levels, five rooms, a lift, a one-way loop through the store. */
+/** The invented Larkspur Reading Rooms: two levels, five rooms (each a zone), a lift, a one-way loop through the store. */
 function larkspurFloor(): FloorGraph {
+  const zoneOf: Record<string, string> = { FOY: 'Larkspur foyer', RDG: 'Reading room', CAF: 'Tea room', STO: 'Book store', GAL: 'Upper gallery', OFF: 'Archive office' };
   const rooms = [
     { name: 'FOY', level: 0, x0: 0, y0: 0, w: 4, h: 3, surface: 'tile', start: true },
     { name: 'RDG', level: 0, x0: 4, y0: 0, w: 6, h: 4, surface: 'carpet', start: false },
@@ -34,7 +35,7 @@ function larkspurFloor(): FloorGraph {
   for (const r of rooms) {
     for (let y = r.y0; y < r.y0 + r.h; y++) {
       for (let x = r.x0; x < r.x0 + r.w; x++) {
-        cells.push({ id: id(r.name, r.level, x, y), surface: r.surface, x: x + 0.5, y: y + 0.5, level: r.level, start: r.start && x === r.x0 });
+        cells.push({ id: id(r.name, r.level, x, y), surface: r.surface, x: x + 0.5, y: y + 0.5, level: r.level, start: r.start && x === r.x0, zone: zoneOf[r.name] });
         if (x + 1 < r.x0 + r.w) links.push({ from: id(r.name, r.level, x, y), to: id(r.name, r.level, x + 1, y), oneway: false });
         if (y + 1 < r.y0 + r.h) links.push({ from: id(r.name, r.level, x, y), to: id(r.name, r.level, x, y + 1), oneway: false });
       }
@@ -136,6 +137,12 @@ describe('the HTML report in headless Chromium', () => {
     }
     expect(await page.locator('section#floor-map svg.floor-map').count()).toBe(2);
     expect(await page.locator('h1').innerText()).toBe('Larkspur Reading Rooms (invented)');
+    // Zone names on the floor maps, and the per-zone table in the ambiguity section.
+    const names = await page.locator('section#floor-map .zone-names text').allTextContents();
+    expect(names.sort()).toEqual(['Archive office', 'Book store', 'Larkspur foyer', 'Reading room', 'Tea room', 'Upper gallery']);
+    expect(await page.locator('section#floor-map .zone-names text', { hasText: 'Reading room' }).isVisible()).toBe(true);
+    const zoneTable = page.locator('section#ambiguity table', { hasText: 'zone recovered' });
+    expect(await zoneTable.locator('tbody tr').count()).toBe(6);
     await page.close();
   });
 
@@ -179,6 +186,9 @@ describe('the HTML report in headless Chromium', () => {
     const text = await page.locator('body').innerText();
     expect(text).toContain(HOSTILE.run); // in the runs tables
     expect(text).toContain(HOSTILE.surface); // in the legend and the emission table's rows
+    expect(text).toContain(HOSTILE.zone); // in the zone table
+    const zoneNames = await page.locator('.zone-names text').allTextContents();
+    expect(zoneNames).toContain(HOSTILE.zone); // on the maps, as text
     // Cell ids live in SVG titles (hover text) and tables: the hostile one is a text node.
     const titles = await page.evaluate(() => Array.from(document.querySelectorAll('svg title'), (t) => t.textContent ?? ''));
     expect(titles.some((t) => t.startsWith(`${'<img src=x onerror=alert(1)>'} (level 0)`))).toBe(true);

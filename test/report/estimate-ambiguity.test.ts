@@ -104,4 +104,34 @@ describe('estimateAmbiguity(model, options)', () => {
     expect(a.ambiguous[4]).toBe(0);
     expect(a.visits[0]).toBeGreaterThanOrEqual(10);
   });
+
+  it('per zone: one zone over the whole floor is recovered exactly; single-cell zones score as their cells; mirror-image rooms confuse each other', () => {
+    const { floor } = twinRooms();
+    const whole = buildModel({ ...floor, cells: floor.cells.map((c) => ({ ...c, zone: 'everything' })) }, { hit: 0.8 });
+    const a = estimateAmbiguity(whole, { runs: 10, steps: 80, seed: 2 });
+    expect(a.zones.map((z) => z.zone)).toEqual(['everything']);
+    expectClose(a.zones[0].recovery, 1, { abs: 1e-12 });
+    expect(a.zones[0].visits).toBe(800);
+    expect(a.zones[0].confusedWith).toBe(-1);
+
+    const single = buildModel({ ...floor, cells: floor.cells.map((c) => ({ ...c, zone: `z ${c.id}` })) }, { hit: 0.8 });
+    const b = estimateAmbiguity(single, { runs: 10, steps: 80, seed: 2 });
+    b.zones.forEach((z, k) => {
+      expect(z.visits).toBe(b.visits[k]);
+      if (z.visits > 0) {
+        expectClose(z.recovery, b.recovery[k], { abs: 1e-12 }, z.zone);
+        expectClose(z.cellRecovery, b.recovery[k], { abs: 1e-12 }, z.zone);
+      }
+    });
+
+    // Rooms A and B are mirror images with the hall between them: each room is mistaken for the other.
+    const rooms = buildModel({ ...floor, cells: floor.cells.map((c) => (c.id === 'hall' ? c : { ...c, zone: c.id.startsWith('A-') ? 'Room A' : 'Room B' })) }, { hit: 0.95 });
+    const c = estimateAmbiguity(rooms, { runs: 40, steps: 100, seed: 5 });
+    expect(c.zones.map((z) => z.zone)).toEqual(['Room A', 'Room B']);
+    for (const [k, other] of [[0, 1], [1, 0]]) {
+      expect(c.zones[k].confusedWith).toBe(other);
+      expect(c.zones[k].recovery).toBeGreaterThan(c.zones[k].cellRecovery);
+      expect(c.zones[k].recovery).toBeLessThan(1);
+    }
+  });
 });

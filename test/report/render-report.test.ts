@@ -51,6 +51,25 @@ describe('renderReport(buildReportData(inputs))', () => {
     expect(floorMap).toContain('G-1-1: changed, reads tile → oak');
   });
 
+  it('outlines and names the zones on every map of a level that has them, and rates recovery per zone', () => {
+    const floorMap = html.slice(html.indexOf('<section id="floor-map"'), html.indexOf('<section id="restarts"'));
+    expect(floorMap.match(/<path class="zone-outline"/g)).toHaveLength(1); // the upper floor has no zones
+    expect(floorMap).toMatch(/<text [^>]*>West wing<\/text>/);
+    expect(floorMap).toMatch(/<text [^>]*>East wing<\/text>/);
+    const ambiguity = html.slice(html.indexOf('<section id="ambiguity"'), html.indexOf('<section id="runs"'));
+    expect(ambiguity).toContain('id="ov-zone-recovery"');
+    expect(ambiguity.match(/<path class="zone-outline"/g)).toHaveLength(1);
+    expect(ambiguity).toContain('Zones: which a planner can trust');
+    expect(ambiguity).toMatch(/<td>West wing<\/td>/);
+    expect(ambiguity).toMatch(/<td>East wing<\/td>/);
+    const noZones = reportFixture();
+    noZones.modelFile.model.cells.forEach((c) => delete c.zone);
+    const plain = renderReport(buildReportData(noZones));
+    expect(plain).not.toContain('zone-outline');
+    expect(plain).not.toContain('id="ov-zone-recovery"');
+    expect(plain).not.toContain('Zones: which a planner can trust');
+  });
+
   it('leaves out overlays whose input is missing', () => {
     const bare = renderReport(buildReportData({ ...reportFixture(), annotated: null, changes: null, runRows: null }));
     expect(bare).toContain('id="ov-surface"');

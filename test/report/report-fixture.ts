@@ -14,13 +14,15 @@ export const HOSTILE = {
   surface: '<b>tile</b>',
   run: '</td><script>alert(2)</script>',
   building: 'Quay & <Hall> "A" </title><script>alert(3)</script>',
+  zone: '<b>West</b> & "wing" </text><script>alert(4)</script>',
 };
 
 /**
  * An invented two-level floor (a 4 × 3 ground floor, a 2 × 2 upper floor joined by a lift link, one
  * one-way link), its model with one cell that reads unlike its survey, a hand-made fit record (three
  * restarts, numbers invented), simulated runs decoded into an annotated table and a summary, and a
- * changes table — everything a report needs. `hostile` puts markup into every kind of label.
+ * changes table — everything a report needs. The ground floor has two zones (columns 0–1 and 2–3);
+ * the upper floor has none. `hostile` puts markup into every kind of label.
  */
 export function reportFixture(hostile = false): ReportInputs & { floor: FloorGraph } {
   const surfaces = ['oak', 'carpet', hostile ? HOSTILE.surface : 'tile'];
@@ -29,7 +31,7 @@ export function reportFixture(hostile = false): ReportInputs & { floor: FloorGra
   for (let y = 0; y < 3; y++) {
     for (let x = 0; x < 4; x++) {
       const id = hostile && x === 0 && y === 0 ? HOSTILE.cell : `G-${x}-${y}`;
-      cells.push({ id, surface: surfaces[(x + y) % 3], x: x + 0.5, y: y + 0.5, level: 0, start: x === 0 });
+      cells.push({ id, surface: surfaces[(x + y) % 3], x: x + 0.5, y: y + 0.5, level: 0, start: x === 0, zone: x < 2 ? (hostile ? HOSTILE.zone : 'West wing') : 'East wing' });
     }
   }
   const gid = (x: number, y: number) => cells[y * 4 + x].id;
