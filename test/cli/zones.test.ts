@@ -158,6 +158,21 @@ describe('zones through the built command', () => {
     const s = table(p('plain-summary.csv'));
     expect(s.col('mean_zone_p')(0)).toBe('');
     expect(s.col('low_confidence_zone_steps')(0)).toBe('');
+    // With --floor the floor's zones are used (zones are labels; no re-fit needed to redraw them).
+    const withFloor = runCli(['decode', '--model', p('plain.json'), '--floor', p('floor.json'), '--runs', p('runs.csv'), '--out', p('plain-floor-annotated.csv')]);
+    expect(withFloor.code, withFloor.stderr).toBe(0);
+    const z = table(p('plain-floor-annotated.csv'));
+    for (let r = 0; r < z.t.nRows; r++) expect(z.col('path_zone')(r)).toBe(zoneOfCell.get(z.col('path_cell')(r)));
+  });
+
+  it('a model file whose zone is not a non-empty string: one line, exit 2, nothing written', () => {
+    const text = readFileSync(p('fit.json'), 'utf8').replace('"zone": "Hall"', '"zone": 7');
+    expect(text).toContain('"zone": 7');
+    writeFileSync(p('bad-model.json'), text);
+    const r = runCli(['decode', '--model', p('bad-model.json'), '--runs', p('runs.csv'), '--out', p('bad-model-annotated.csv')]);
+    expect(r.code).toBe(2);
+    expect(r.stderr.trim().split('\n')).toEqual([`underfoot: ${p('bad-model.json')}: cell "g-3-1": "zone" must be a non-empty string, got 7`]);
+    expect(existsSync(p('bad-model-annotated.csv'))).toBe(false);
   });
 
   it('check lists the zones with their cell counts and the georeference', () => {
