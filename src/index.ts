@@ -2,7 +2,7 @@
  * underfoot as a library. Entry points: build a model from a floor, score runs, decode a run, run one
  * EM iteration over many runs, or the whole multi-restart fit; read and write the files.
  */
-export type { FloorGraph, FloorCell, FloorLink } from './model/floor-graph.js';
+export type { FloorGraph, FloorCell, FloorLink, Georeference } from './model/floor-graph.js';
 export type { HmmModel, TransitionMode, TransitionStructure, ModelCell } from './model/hmm-model.js';
 export { buildModel, type BuildModelOptions } from './model/build-model.js';
 export { buildStructure } from './model/build-structure.js';
@@ -13,6 +13,7 @@ export { sampleRun } from './model/sample-run.js';
 export { SeededRandom } from './model/seeded-random.js';
 export { analyzeFloor, type FloorAnalysis } from './model/analyze-floor.js';
 export { checkModelFloor } from './model/check-model-floor.js';
+export { withFloorZones } from './model/with-floor-zones.js';
 
 export type { SparseChain } from './kernels/sparse-chain.js';
 export { forwardScaled } from './kernels/forward-scaled.js';
@@ -21,12 +22,14 @@ export { posteriorMarginals } from './kernels/posterior-marginals.js';
 export { forwardScore } from './kernels/forward-score.js';
 export { viterbiLog } from './kernels/viterbi-log.js';
 export { expectedCounts } from './kernels/expected-counts.js';
+export { positionSummary, positionWorkSize, type PositionGroups, type PositionPass, type PositionSteps } from './kernels/position-summary.js';
 
 export { emIteration, type RunReadings, type EmIterationResult } from './fit/em-iteration.js';
 export { fitModel, DEFAULT_FIT_OPTIONS, type FitInput, type FitResult, type FitProgress } from './fit/fit-model.js';
 export type { FitOptions, FitRecord, LoopRecord } from './fit/fit-record.js';
 
-export { decodeRun, type DecodedRun } from './decode/decode-run.js';
+export { decodeRun, type DecodedRun, type DecodeOptions } from './decode/decode-run.js';
+export { positionLayout, type PositionLayout } from './decode/position-layout.js';
 export { scoreRun } from './decode/score-run.js';
 export { logChain } from './decode/log-chain.js';
 

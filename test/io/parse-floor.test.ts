@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { InputError } from '../../src/errors.js';
+import { formatFloor } from '../../src/io/format-floor.js';
 import { parseFloor } from '../../src/io/parse-floor.js';
 
 // Source for every rule checked here: the product contract (shared/CONTRACT.md), "Floor file" (format name, fields,
@@ -92,6 +93,22 @@ describe('parseFloor(text, source) on a valid file', () => {
     cells(doc).push({ id: 'C1', surface: 'tile', x: 3, y: 3 });
     links(doc).push({ from: 'B2', to: 'C1' });
     expect(parseFloor(JSON.stringify(doc), 'floor.json').cells.map((c) => c.id)).toContain('C1');
+  });
+
+  it('parseFloor(text) keeps zones and the georeference; formatFloor writes them back (and nothing when absent)', () => {
+    const doc = floorDoc();
+    cells(doc)[0].zone = 'Loading bay';
+    cells(doc)[1].zone = 'Loading bay';
+    cells(doc)[2].zone = 'Cold store (level 1)';
+    doc.georeference = { lat: -33.5, lon: 151.25, bearing: 359.5 };
+    const floor = parseFloor(JSON.stringify(doc), 'floor.json');
+    expect(floor.cells.map((c) => c.zone)).toEqual(['Loading bay', 'Loading bay', 'Cold store (level 1)', undefined]);
+    expect('zone' in floor.cells[3]).toBe(false);
+    expect(floor.georeference).toEqual({ lat: -33.5, lon: 151.25, bearing: 359.5 });
+    expect(parseFloor(formatFloor(floor), 'again.json')).toEqual(floor);
+    const plain = parseFloor(JSON.stringify(floorDoc()), 'floor.json');
+    expect('georeference' in plain).toBe(false);
+    expect(formatFloor(plain)).not.toMatch(/zone|georeference/);
   });
 
   it('parseFloor(text) keeps ids and surfaces as written, spaces included', () => {
