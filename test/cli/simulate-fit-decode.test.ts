@@ -86,13 +86,19 @@ describe('simulate → fit → decode through the built command', () => {
   it('decode writes every contract column, input columns first, rows in input order', () => {
     const ann = parseCsv(readFileSync(p('fitted.csv'), 'utf8'), 'fitted.csv');
     const input = parseCsv(readFileSync(p('runs.csv'), 'utf8'), 'runs.csv');
-    expect(ann.header).toEqual([...input.header, 'path_cell', 'path_p', 'likely_cell', 'likely_p', 'entropy_bits', 'surprise_bits', 'flag']);
+    expect(ann.header).toEqual([
+      ...input.header, 'path_cell', 'path_p', 'likely_cell', 'likely_p', 'entropy_bits', 'surprise_bits', 'flag',
+      'path_zone', 'likely_zone', 'zone_p', 'path_x', 'path_y', 'path_level', 'mean_x', 'mean_y', 'spread_m', 'mean_level',
+    ]);
     expect(ann.nRows).toBe(input.nRows);
     for (let c = 0; c < input.header.length; c++) expect(ann.columns[c].toArray()).toEqual(input.columns[c].toArray());
     const flags = new Set(ann.columns[ann.header.indexOf('flag')].toArray());
     expect(flags.has('dropout') || [...flags].some((f) => f?.includes('dropout'))).toBe(true);
     const summary = parseCsv(readFileSync(p('summary.csv'), 'utf8'), 'summary.csv');
-    expect(summary.header).toEqual(['run', 'steps', 'dropouts', 'split', 'loglik', 'loglik_per_reading', 'path_logprob', 'mean_path_p', 'low_confidence_steps', 'surprising_steps']);
+    expect(summary.header).toEqual([
+      'run', 'steps', 'dropouts', 'split', 'loglik', 'loglik_per_reading', 'path_logprob', 'mean_path_p', 'low_confidence_steps', 'surprising_steps',
+      'gap_steps', 'mean_zone_p', 'low_confidence_zone_steps',
+    ]);
     expect(summary.nRows).toBe(60);
     expect(new Set(summary.columns[3].toArray())).toEqual(new Set(['fit', 'held-out']));
   });
