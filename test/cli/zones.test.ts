@@ -133,10 +133,12 @@ describe('zones through the built command', () => {
   it('zone accuracy of the fitted model is within 2 percentage points of the true model\'s, and above cell accuracy', () => {
     const fitted = zoneAccuracy(p('fit-annotated.csv'), 'likely_zone');
     const true_ = zoneAccuracy(p('truth-annotated.csv'), 'likely_zone');
+    console.log(`likely_zone right: fitted model ${(100 * fitted).toFixed(1)} %, true model ${(100 * true_).toFixed(1)} %`);
     expect(Math.abs(fitted - true_), `fitted ${fitted}, truth ${true_}`).toBeLessThanOrEqual(0.02);
     const { t, col } = table(p('fit-annotated.csv'));
     let cellHits = 0;
     for (let r = 0; r < t.nRows; r++) if (col('likely_cell')(r) === col('true_cell')(r)) cellHits++;
+    console.log(`likely_cell right (fitted model): ${((100 * cellHits) / t.nRows).toFixed(1)} %`);
     expect(fitted).toBeGreaterThan(cellHits / t.nRows);
     const pathZoneFit = zoneAccuracy(p('fit-annotated.csv'), 'path_zone');
     const pathZoneTruth = zoneAccuracy(p('truth-annotated.csv'), 'path_zone');
