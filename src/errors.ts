@@ -23,7 +23,7 @@ export class WorkError extends Error {
 export function quote(value: unknown): string {
   let text: string;
   if (value === undefined) text = 'nothing';
-  else if (typeof value === 'string') text = JSON.stringify(value);
+  else if (typeof value === 'string') text = JSON.stringify(value.length > 200 ? value.slice(0, 200) : value);
   else {
     try {
       text = JSON.stringify(value) ?? String(value);
