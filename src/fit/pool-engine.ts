@@ -116,4 +116,3 @@ export class PoolEngine implements EStepEngine {
     return this.last;
   }
 }
-
