@@ -84,7 +84,7 @@ const rows: Array<[string, () => void]> = [
   }],
 ];
 if (WasmLaneKernels.available()) {
-  const wasm = new WasmLaneKernels();
+  const wasm = WasmLaneKernels.create()!;
   const wasmPass = (perLink: boolean | null) => (): void => {
     for (const g of groups) {
       wasm.prepare(chain, g, T);

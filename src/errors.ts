@@ -23,7 +23,7 @@ export class WorkError extends Error {
 export function quote(value: unknown): string {
   let text: string;
   if (value === undefined) text = 'nothing';
-  else if (typeof value === 'string') text = JSON.stringify(value);
+  else if (typeof value === 'string') text = JSON.stringify(value.length > 200 ? value.slice(0, 200) : value);
   else {
     try {
       text = JSON.stringify(value) ?? String(value);
@@ -42,4 +42,28 @@ export class FitInterruptedError extends Error {
     super(message);
     this.name = 'FitInterruptedError';
   }
+}
+
+/**
+ * True for the errors a runtime raises when memory or address space runs out: a refused ArrayBuffer or
+ * typed array (RangeError), a worker thread stopped for want of memory. Such errors may come from a
+ * worker thread, where they arrive as copies (so they are recognised by name and code, not by class).
+ */
+export function isOutOfMemory(err: unknown): boolean {
+  const e = err as { name?: unknown; message?: unknown; code?: unknown } | null;
+  if (e === null || typeof e !== 'object') return false;
+  if (e.code === 'ERR_WORKER_OUT_OF_MEMORY') return true;
+  return (
+    (err instanceof RangeError || e.name === 'RangeError') &&
+    /allocation failed|could not allocate|out of memory|invalid typed array length|invalid array buffer length/i.test(String(e.message))
+  );
+}
+
+/** The one-line WorkError (exit 1) for an error that `isOutOfMemory` recognises. */
+export function outOfMemoryError(err: unknown): WorkError {
+  const why = String((err as { message?: unknown })?.message ?? err).replace(/\s+/g, ' ');
+  return new WorkError(
+    `memory: the work must fit in the memory this process may use, got an allocation refused (${why}); ` +
+      'close other programs, use fewer --workers, or raise the limit (ulimit -v)',
+  );
 }

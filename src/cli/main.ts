@@ -1,5 +1,5 @@
 import { Command, CommanderError } from 'commander';
-import { InputError, WorkError, FitInterruptedError } from '../errors.js';
+import { InputError, WorkError, FitInterruptedError, isOutOfMemory, outOfMemoryError } from '../errors.js';
 import { TOOL_VERSION } from '../version.js';
 import { processIo, type CliIo } from './cli-io.js';
 import { registerCheck } from './check-command.js';
@@ -44,6 +44,11 @@ export async function main(argv: string[], io: CliIo = processIo): Promise<numbe
       io.err(`underfoot: ${err.message}\n`);
       if (debug && err.stack) io.err(err.stack + '\n');
       return err.exitCode;
+    }
+    if (isOutOfMemory(err)) {
+      io.err(`underfoot: ${outOfMemoryError(err).message}\n`);
+      if (debug && (err as Error).stack) io.err((err as Error).stack + '\n');
+      return 1;
     }
     const e = err as Error;
     io.err(`underfoot: internal error: ${e?.message ?? String(err)}${debug ? '' : ' (run again with --debug for details)'}\n`);

@@ -12,7 +12,7 @@ let wasm: WasmViterbi | null | undefined;
  * The Viterbi path of one run (ties to the lowest cell index, as `viterbiLog`) into `pathOut`, returning
  * its joint log-probability log P(path, readings), or −Infinity when every path is impossible (then
  * `pathOut` is filled with −1). Runs `viterbiSegment` as WebAssembly (`WasmViterbi`: the same numbers)
- * where available and `useWasm`, else in JavaScript.
+ * where available and `useWasm` (and its memory can be had), else in JavaScript.
  *
  * Back-pointers are kept in the narrowest integer type that holds the cell count. When the run's
  * back-pointers would exceed `limitBytes`, the decoding is checkpointed (`segmentSteps`): the first pass
@@ -33,13 +33,15 @@ export function viterbiPath(chain: SparseChain, log: LogChain, obs: Int32Array, 
   const logDwell = Float64Array.from(chain.dwell, Math.log);
   const logInProb = Float64Array.from(chain.inProb, Math.log);
 
-  if (useWasm && wasm === undefined) wasm = WasmViterbi.available() ? new WasmViterbi() : null;
-  const machine = useWasm ? wasm : null;
+  if (useWasm && wasm === undefined) wasm = WasmViterbi.available() ? WasmViterbi.create() : null;
+  // A WebAssembly memory that cannot grow for this run leaves the JavaScript kernel to decode it.
+  const prepared = useWasm && wasm ? wasm.prepare(chain, log.logStart, logDwell, logInProb, log.logEmitT, obs, segment) : null;
   let delta: Float64Array;
   let back: Uint8Array | Uint16Array | Int32Array;
   let run: (a: number, b: number) => void;
-  if (machine) {
-    ({ delta, back } = machine.prepare(chain, log.logStart, logDwell, logInProb, log.logEmitT, obs, segment));
+  if (prepared) {
+    const machine = wasm as WasmViterbi;
+    ({ delta, back } = prepared);
     run = (a, b) => machine.run(a, b);
   } else {
     delta = new Float64Array(2 * n);

@@ -6,7 +6,7 @@ import type { EStepWorkspace } from './e-step-workspace.js';
 import { foldCounts } from './fold-counts.js';
 
 /**
- * E-step of up to `LANES` runs side by side (the lane kernels, `ws.lanes()`: one pass over the
+ * E-step of up to `LANES` runs side by side (the lane kernels, `ws.preparedLanes`: one pass over the
  * transitions serves every run of the group), added into `counts`. Writes each run's log-likelihood into
  * `logOut[k]` (−Infinity for a run impossible under the model) and returns false when any run was
  * impossible — then nothing is added, and the caller names the run. Counts are per link when `perLink`,
@@ -30,8 +30,7 @@ export function accumulateLanes(
   const T = group.nSteps;
   const segment = segmentSteps(T, row * 8, ws.plainLimitBytes);
   const nSegments = T === 0 ? 0 : Math.ceil(T / segment);
-  const lanes = ws.lanes();
-  lanes.prepare(chain, group, segment);
+  const lanes = ws.preparedLanes(chain, group, segment);
   const table = lanes.table;
   const checkpoints = nSegments > 1 ? ws.ensureCheckpoints(nSegments * row) : ws.checkpoints;
   logOut.fill(0, 0, LANES);

@@ -1,4 +1,4 @@
-import { LANES, type LaneGroup } from '../kernels/sparse-chain.js';
+import { LANES, type LaneGroup, type SparseChain } from '../kernels/sparse-chain.js';
 import type { LaneAccumulators, LaneKernels } from '../kernels/lane-kernels.js';
 import { JsLaneKernels } from '../kernels/js-lane-kernels.js';
 import { WasmLaneKernels } from '../kernels/wasm-lane-kernels.js';
@@ -21,7 +21,8 @@ export class EStepWorkspace {
   plainLimitBytes = DEFAULT_PLAIN_LIMIT_BYTES;
   /**
    * Run the lane kernels as WebAssembly SIMD where the runtime has it (same numbers, bit for bit, about
-   * three times faster); false forces the JavaScript kernels. @default true
+   * three times faster); false forces the JavaScript kernels. Set to false by `preparedLanes` when the
+   * runtime refuses the WebAssembly kernels' memory (or its growth). @default true
    */
   useWasm = true;
   /** One run's forward table for a segment, with its entry row: (segment steps + 1) × cells. */
@@ -47,12 +48,30 @@ export class EStepWorkspace {
   group: LaneGroup = { nSteps: 0, laneSteps: new Int32Array(LANES), rows: new Int32Array(0) };
   private laneKernels: LaneKernels | null = null;
 
-  /** The lane kernels, created on first use: WebAssembly SIMD when available and `useWasm`, else JavaScript. */
+  /**
+   * The lane kernels, created on first use: WebAssembly SIMD when available and `useWasm`, else
+   * JavaScript (also when the runtime refuses a WebAssembly memory).
+   */
   lanes(): LaneKernels {
     const wasm = this.useWasm && WasmLaneKernels.available();
     if (this.laneKernels === null || (this.laneKernels instanceof WasmLaneKernels) !== wasm) {
-      this.laneKernels = wasm ? new WasmLaneKernels() : new JsLaneKernels();
+      this.laneKernels = (wasm ? WasmLaneKernels.create() : null) ?? new JsLaneKernels();
+      if (wasm && this.laneKernels instanceof JsLaneKernels) this.useWasm = false;
     }
+    return this.laneKernels;
+  }
+
+  /**
+   * The lane kernels prepared for `group` in segments of `segment` steps (`LaneKernels.prepare`). When
+   * the WebAssembly kernels cannot have the memory for it, this workspace turns to the JavaScript
+   * kernels for good (the same numbers, bit for bit); a RangeError from them means memory has run out.
+   */
+  preparedLanes(chain: SparseChain, group: LaneGroup, segment: number): LaneKernels {
+    const lanes = this.lanes();
+    if (lanes.prepare(chain, group, segment)) return lanes;
+    this.useWasm = false;
+    this.laneKernels = new JsLaneKernels();
+    this.laneKernels.prepare(chain, group, segment);
     return this.laneKernels;
   }
 

@@ -5,6 +5,7 @@ import type { SparseChain } from '../kernels/sparse-chain.js';
 import { chainFromModel } from '../model/chain-from-model.js';
 import type { HmmModel, TransitionMode } from '../model/hmm-model.js';
 import { WorkError } from '../errors.js';
+import { workerFailure } from './worker-failure.js';
 import { accumulateBlock, type BlockCounts } from './accumulate-block.js';
 import type { EStepEngine } from './e-step-engine.js';
 import { EStepWorkspace } from './e-step-workspace.js';
@@ -85,15 +86,27 @@ export class PoolEngine implements EStepEngine {
     const job: WorkerJob = { kind, model: message, blocks, mode: this.mode, next };
     const pool = this.pool;
     const replies = pool ? Array.from({ length: this.workers - 1 }, () => pool.run(job) as Promise<WorkerReply>) : [];
+    // Every reply is awaited, whatever happens here: a reply left pending would be rejected when the
+    // pool closes, and an unhandled rejection ends the process with a stack trace.
+    const settled = Promise.allSettled(replies);
     // This thread's share, taken from the counter as `takeBlocks` does, a block at a time; between blocks
     // the event loop runs, so that a worker that has just started gets its job (piscina hands it over
     // from this thread). Then the workers' shares.
     const results = new Array<BlockCounts | BlockScore>(blocks.length);
-    for (let b = Atomics.add(next, 0, 1); b < blocks.length; b = Atomics.add(next, 0, 1)) {
-      results[b] = compute(chain, blocks[b]);
-      await yieldToEventLoop();
+    try {
+      for (let b = Atomics.add(next, 0, 1); b < blocks.length; b = Atomics.add(next, 0, 1)) {
+        results[b] = compute(chain, blocks[b]);
+        await yieldToEventLoop();
+      }
+    } catch (err) {
+      Atomics.store(next, 0, blocks.length); // the workers take no further block
+      await settled;
+      throw err;
     }
-    for (const reply of await Promise.all(replies)) for (const [b, result] of reply) results[b] = result;
+    for (const reply of await settled) {
+      if (reply.status === 'rejected') throw workerFailure(reply.reason);
+      for (const [b, result] of reply.value) results[b] = result;
+    }
     return results;
   }
 

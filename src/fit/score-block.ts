@@ -19,7 +19,7 @@ const MIN_WINDOW = 8;
 /**
  * Σ log P(readings) of one block of runs, added in block order. Forward pass only, in a rolling window
  * of rows (memory independent of run length); runs of similar length go through the lane kernels
- * (`ws.lanes()`) up to `LANES` at a time (the grouping of `accumulateBlock`), a run left alone through
+ * (`ws.preparedLanes`) up to `LANES` at a time (the grouping of `accumulateBlock`), a run left alone through
  * `forwardSegment`. A run's log-likelihood is the same number either way, and the same as the E-step's.
  */
 export function scoreBlock(chain: SparseChain, packed: PackedRuns, runs: ArrayLike<number>, ws: EStepWorkspace): BlockScore {
@@ -66,8 +66,7 @@ function scoreLanes(chain: SparseChain, runs: Int32Array[], ws: EStepWorkspace, 
   const group = fillLaneGroup(runs, n, chain.nReadings, ws.group);
   const T = group.nSteps;
   const window = Math.max(MIN_WINDOW, Math.floor(WINDOW_BYTES / (8 * row)) - 1);
-  const lanes = ws.lanes();
-  lanes.prepare(chain, group, window);
+  const lanes = ws.preparedLanes(chain, group, window);
   const table = lanes.table;
   logOut.fill(0);
   for (let a = 0; a < T; a += window) {

@@ -24,6 +24,21 @@ export interface KeyedRows {
 /** A run may have at most this many steps filled in for missing samples (a guard against timestamps). */
 export const MAX_GAP_STEPS = 10_000_000;
 
+/**
+ * The steps of all runs together (first to last step of each run, gaps included) may number at most
+ * `maxTotalSteps(rows)` = min(`MAX_TOTAL_STEPS`, `STEPS_PER_ROW` × rows + `STEPS_BASE`) over all runs
+ * tables read together: memory then grows with the input's own size, whatever its step numbers say
+ * (a few bytes of text can otherwise name steps 0 and 10⁷ and ask for 10⁷ steps of memory).
+ */
+export const MAX_TOTAL_STEPS = 100_000_000;
+export const STEPS_PER_ROW = 1000;
+export const STEPS_BASE = 1_000_000;
+
+/** The most steps (gaps included) that runs tables of `rows` rows in all may fill in. */
+export function maxTotalSteps(rows: number): number {
+  return Math.min(MAX_TOTAL_STEPS, STEPS_PER_ROW * rows + STEPS_BASE);
+}
+
 const UNKNOWN = -2;
 
 /** Parses a step value: a whole number >= 0 (number, bigint or decimal text such as `12` or `12.0`); -1 if not. */
@@ -50,8 +65,11 @@ function describeValue(value: unknown): string {
  * `options.surfaces`. Empty/null readings and steps missing between the first and last step are
  * DROPOUT. Errors (InputError, one line naming the file, run and step or line): an empty table, an empty
  * run id, a step that is not a whole number >= 0, a step repeated within a run, a reading not in the
- * surfaces (unless `unknownReadings: 'dropout'`, which counts them and adds one warning).
- * Memory is a few typed arrays over rows; no per-row objects.
+ * surfaces (unless `unknownReadings: 'dropout'`, which counts them and adds one warning), more steps
+ * in all than `maxTotalSteps` allows (checked before any run's steps are laid out; `options.prior`
+ * carries the rows and steps of tables read before this one).
+ * Memory is a few typed arrays over rows; no per-row objects. With `fillGaps: false` a run's `obs` and
+ * `rows` hold only the steps present in the file, so memory stays per row whatever the gaps.
  */
 export function buildRunsTable(input: KeyedRows, options: ReadRunsOptions): RunsTable {
   const { source, nRows, locate } = input;
@@ -146,8 +164,12 @@ export function buildRunsTable(input: KeyedRows, options: ReadRunsOptions): Runs
   const order = new Int32Array(nRows);
   for (let row = 0; row < nRows; row++) order[fill[runOfRow[row]]++] = row;
 
-  // Pass 3: per run, sort by step, reject repeats, lay the readings out by step.
-  const runs: RunSequence[] = [];
+  // Pass 3: per run, sort by step and reject repeats; the steps each run spans, checked against the
+  // limits before any run's steps are laid out.
+  const nStepsOfRun = new Float64Array(nRuns);
+  const priorRows = options.prior?.rows ?? 0;
+  let totalSteps = options.prior?.steps ?? 0;
+  const limit = maxTotalSteps(priorRows + nRows);
   for (let r = 0; r < nRuns; r++) {
     const rowsOfRun = order.subarray(start[r], start[r + 1]);
     let sorted = true;
@@ -172,19 +194,39 @@ export function buildRunsTable(input: KeyedRows, options: ReadRunsOptions): Runs
           `between step ${firstStep} and step ${lastStep} (is the step column a sample index?)`,
       );
     }
-    const obs = new Int32Array(nSteps).fill(DROPOUT);
-    const rows = new Int32Array(nSteps).fill(-1);
+    totalSteps += nSteps;
+    if (totalSteps > limit) {
+      throw new InputError(
+        `${source}: runs must span at most ${limit} steps in all (${STEPS_PER_ROW} per row + ${STEPS_BASE}, at most ` +
+          `${MAX_TOTAL_STEPS}; gaps count), got ${totalSteps} by run ${quote(runIds[r])} (steps ${firstStep} to ${lastStep} ` +
+          `in ${rowsOfRun.length} rows; is the step column a sample index?)`,
+      );
+    }
+    nStepsOfRun[r] = nSteps;
+  }
+
+  // Pass 4: lay each run's readings out by step (gaps as dropouts), or only its rows (`fillGaps: false`).
+  const fillGaps = options.fillGaps ?? true;
+  const runs: RunSequence[] = [];
+  for (let r = 0; r < nRuns; r++) {
+    const rowsOfRun = order.subarray(start[r], start[r + 1]);
+    const firstStep = stepOfRow[rowsOfRun[0]];
+    const nSteps = nStepsOfRun[r];
+    const size = fillGaps ? nSteps : rowsOfRun.length;
+    const obs = new Int32Array(size).fill(DROPOUT);
+    const rows = new Int32Array(size).fill(-1);
     let nDropouts = 0;
     let nUnknown = 0;
-    for (const row of rowsOfRun) {
-      const t = stepOfRow[row] - firstStep;
+    for (let k = 0; k < rowsOfRun.length; k++) {
+      const row = rowsOfRun[k];
+      const t = fillGaps ? stepOfRow[row] - firstStep : k;
       rows[t] = row;
       const code = codeOfRow[row];
       if (code >= 0) obs[t] = code;
       else if (code === DROPOUT) nDropouts++;
       else nUnknown++;
     }
-    runs.push({ id: runIds[r], firstStep, obs, rows, nDropouts, nGapSteps, nUnknown });
+    runs.push({ id: runIds[r], firstStep, nSteps, obs, rows, nDropouts, nGapSteps: nSteps - rowsOfRun.length, nUnknown });
   }
 
   const warnings: string[] = [];

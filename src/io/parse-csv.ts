@@ -81,6 +81,12 @@ export interface CsvTable {
   lineOfRow(row: number): number;
 }
 
+/**
+ * A header may name at most this many columns: every column costs typed arrays sized to the rows, so
+ * a header line of a few megabytes could otherwise ask for gigabytes before any row is read.
+ */
+export const MAX_TABLE_COLUMNS = 10_000;
+
 const COMMA = 44;
 const QUOTE = 34;
 const LF = 10;
@@ -93,8 +99,10 @@ const ESCAPED_FIELD = -2;
  * in double quotes, `""` for a quote inside quotes, quoted fields may hold commas and line breaks. Also
  * accepted: a leading byte-order mark, LF, CRLF or CR line ends, a last line with or without a line end;
  * empty lines at the end are ignored. Nothing is trimmed; a quote inside an unquoted field is kept as
- * text. Errors name `source` and the line: an empty file, empty or repeated header names, a row with
- * the wrong number of fields, an unclosed quote, text after a closing quote.
+ * text. Errors name `source` and the line: an empty file, empty or repeated header names, a header of
+ * more than `MAX_TABLE_COLUMNS` columns (found while the header is read), a row with the wrong number of
+ * fields, an unclosed quote, text after a closing quote. Memory: 8 bytes per field and 4 per row,
+ * sized from the text (a row of n fields needs at least n characters), plus the text itself.
  */
 export function parseCsv(text: string, source: string): CsvTable {
   let pos = text.charCodeAt(0) === 0xfeff ? 1 : 0;
@@ -106,6 +114,7 @@ export function parseCsv(text: string, source: string): CsvTable {
   // Room for as many rows as the text has line ends (grown if a CR-only file holds more), allocated once:
   // growing by doubling touches about twice the memory, and fresh memory is slow to touch.
   let capacity = countLineEnds(text) + 1;
+  let maxRows = capacity;
   let starts: Int32Array[] = [];
   let ends: Int32Array[] = [];
   let escaped: Map<number, string>[] = [];
@@ -116,7 +125,7 @@ export function parseCsv(text: string, source: string): CsvTable {
     if (onlyLineEndsFrom(text, pos)) break;
     const recordLine = line;
     if (!inHeader && nRows === capacity) {
-      capacity = Math.max(1024, capacity * 2);
+      capacity = Math.max(nRows + 1, Math.min(maxRows, Math.max(1024, capacity * 2)));
       starts = starts.map((a) => grow(a, capacity));
       ends = ends.map((a) => grow(a, capacity));
       rowLines = grow(rowLines, capacity);
@@ -174,6 +183,11 @@ export function parseCsv(text: string, source: string): CsvTable {
       }
 
       if (inHeader) {
+        if (header.length === MAX_TABLE_COLUMNS) {
+          throw new InputError(
+            `${source}: header must name at most ${MAX_TABLE_COLUMNS} columns, got more (field ${MAX_TABLE_COLUMNS + 1} on line ${line})`,
+          );
+        }
         header.push(value ?? (fieldStart < 0 ? '' : text.slice(fieldStart, fieldEnd)));
       } else if (nFields < nCols) {
         if (value !== undefined) {
@@ -197,6 +211,10 @@ export function parseCsv(text: string, source: string): CsvTable {
     if (inHeader) {
       checkHeader(header, source);
       nCols = header.length;
+      // A row of n fields takes at least n characters (n − 1 commas and a line end), so the rest of the
+      // text holds at most (rest / n) + 1 rows: with many columns that is far fewer than its line ends.
+      maxRows = Math.floor((end - pos) / nCols) + 1;
+      capacity = Math.min(capacity, maxRows);
       starts = header.map(() => new Int32Array(capacity));
       ends = header.map(() => new Int32Array(capacity));
       rowLines = new Int32Array(capacity);

@@ -1,7 +1,7 @@
 import { DataType, Precision, tableFromIPC, type Data, type Table, type Vector } from 'apache-arrow';
 import { InputError, quote } from '../errors.js';
 import { buildRunsTable } from './build-runs-table.js';
-import { parseCsv, type CsvColumn } from './parse-csv.js';
+import { MAX_TABLE_COLUMNS, parseCsv, type CsvColumn } from './parse-csv.js';
 import { resolveKeyColumns } from './resolve-key-columns.js';
 import type { InputColumn, ReadRunsOptions, RunsTable } from './runs-table.js';
 
@@ -95,6 +95,9 @@ function decodeArrow(bytes: Uint8Array, source: string): Table {
 }
 
 function checkNames(names: string[], source: string): void {
+  if (names.length > MAX_TABLE_COLUMNS) {
+    throw new InputError(`${source}: table must have at most ${MAX_TABLE_COLUMNS} columns, got ${names.length}`);
+  }
   const firstAt = new Map<string, number>();
   names.forEach((name, i) => {
     if (name === '') throw new InputError(`${source}: column ${i + 1} must have a name, got an empty name`);

@@ -12,12 +12,15 @@ export interface RunSequence {
   id: string;
   /** First step number of the run (the smallest `step` value). */
   firstStep: number;
+  /** Steps from the first to the last, gaps included (`obs.length` unless read with `fillGaps: false`). */
+  nSteps: number;
   /**
    * Reading code per step, index `t` = step `firstStep + t`; `DROPOUT` (-1) for an empty reading or a
-   * step missing from the file (a gap). Codes index `surfaces`.
+   * step missing from the file (a gap). Codes index `surfaces`. Read with `fillGaps: false`: one code
+   * per row of the run, in step order, gaps left out.
    */
   obs: Int32Array;
-  /** For each step, the row of the input table it came from, or -1 for a gap-filled step. */
+  /** For each step, the row of the input table it came from, or -1 for a gap-filled step (per `obs`). */
   rows: Int32Array;
   /** Empty/null readings in the file (not counting gaps). */
   nDropouts: number;
@@ -65,4 +68,14 @@ export interface ReadRunsOptions {
   readingCol?: string;
   /** @default 'error' */
   unknownReadings?: 'error' | 'dropout';
+  /**
+   * False: lay out only the steps present in the file (`obs`/`rows` per row, `nSteps` still counts the
+   * gaps), for figures that need no per-step memory (`check`). @default true
+   */
+  fillGaps?: boolean;
+  /**
+   * Rows and steps (gaps included) of the runs tables read before this one in the same command, so the
+   * limit on steps (`maxTotalSteps`) holds over all of them. @default none
+   */
+  prior?: { rows: number; steps: number };
 }

@@ -24,7 +24,7 @@ export class JsLaneKernels implements LaneKernels {
   private chain: SparseChain | null = null;
   private group: LaneGroup | null = null;
 
-  prepare(chain: SparseChain, group: LaneGroup, segment: number): void {
+  prepare(chain: SparseChain, group: LaneGroup, segment: number): true {
     const n = chain.nCells;
     const row = LANES * n;
     if (this.table.length < (segment + 1) * row) this.table = new Float64Array((segment + 1) * row);
@@ -42,6 +42,7 @@ export class JsLaneKernels implements LaneKernels {
     a.startCount = grow(a.startCount, n);
     this.chain = chain;
     this.group = group;
+    return true;
   }
 
   forward(t0: number, t1: number, logOut: Float64Array): void {

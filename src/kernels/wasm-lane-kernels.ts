@@ -1,6 +1,7 @@
 import { LANES, type LaneGroup, type SparseChain } from './sparse-chain.js';
 import type { LaneAccumulators, LaneKernels } from './lane-kernels.js';
 import { wasmModule } from './wasm-module.js';
+import { growWasmMemory, newWasmMemory } from './wasm-memory.js';
 import { forwardLanesWasm } from './forward-lanes-wasm.js';
 import { backwardLanesWasm } from './backward-lanes-wasm.js';
 
@@ -30,7 +31,6 @@ function laneModule(): WebAssembly.Module | null {
   return compiled;
 }
 
-const PAGE = 65536;
 const align = (bytes: number): number => Math.ceil(bytes / 16) * 16;
 
 /**
@@ -41,8 +41,10 @@ const align = (bytes: number): number => Math.ceil(bytes / 16) * 16;
  * (16-byte aligned): the chain (start, dwell, links in and out, emissions — copied in when a new chain
  * arrives), the group (each step's and lane's emission-row address, the lane lengths), the scaling
  * factors and step sums, the carried ŵ vectors, the count accumulators and, last, the forward table.
- * The memory grows when a larger group or segment arrives and never shrinks; `table` and
- * `accumulators` are views on it, renewed whenever it grows.
+ * The memory starts at one page, grows when a larger group or segment arrives and never shrinks;
+ * `table` and `accumulators` are views on it, renewed whenever it grows. `create` returns null when
+ * the runtime refuses a memory, and `prepare` returns false when it refuses to grow it (the object is
+ * then unchanged): the caller turns to `JsLaneKernels`.
  */
 export class WasmLaneKernels implements LaneKernels {
   /** True where this runtime compiles WebAssembly with 128-bit SIMD. */
@@ -52,7 +54,6 @@ export class WasmLaneKernels implements LaneKernels {
 
   table = new Float64Array(0);
   accumulators!: LaneAccumulators;
-  private readonly memory = new WebAssembly.Memory({ initial: 1 });
   private readonly kernels: LaneExports;
   private at: Record<string, number> = {};
   private dims = { n: -1, m: -1, links: -1, steps: -1, segment: -1 };
@@ -60,19 +61,26 @@ export class WasmLaneKernels implements LaneKernels {
   private lens = new Int32Array(LANES);
   private sums = new Float64Array(0);
 
-  constructor() {
+  /** The kernels with a memory of their own, or null when the runtime refuses one (see `newWasmMemory`). */
+  static create(): WasmLaneKernels | null {
+    const memory = newWasmMemory();
+    return memory === null ? null : new WasmLaneKernels(memory);
+  }
+
+  private constructor(private readonly memory: WebAssembly.Memory) {
     const module = laneModule();
     if (module === null) throw new Error('WasmLaneKernels: WebAssembly SIMD must be available, got a runtime without it');
     this.kernels = new WebAssembly.Instance(module, { env: { memory: this.memory } }).exports as unknown as LaneExports;
   }
 
-  prepare(chain: SparseChain, group: LaneGroup, segment: number): void {
+  /** As `LaneKernels.prepare`; false when the memory would have to grow and the runtime refuses. */
+  prepare(chain: SparseChain, group: LaneGroup, segment: number): boolean {
     const n = chain.nCells;
     const m = chain.nReadings;
     const links = chain.outPtr[n];
     const d = this.dims;
     if (d.n !== n || d.m !== m || d.links !== links || group.nSteps > d.steps || segment > d.segment) {
-      this.layout(n, m, links, Math.max(group.nSteps, d.n === n ? d.steps : 0), Math.max(segment, d.n === n ? d.segment : 0));
+      if (!this.layout(n, m, links, Math.max(group.nSteps, d.n === n ? d.steps : 0), Math.max(segment, d.n === n ? d.segment : 0))) return false;
     }
     if (this.chain !== chain) this.loadChain(chain);
     // Each step's and lane's emission row as a byte address; the lane lengths.
@@ -81,6 +89,7 @@ export class WasmLaneKernels implements LaneKernels {
     for (let x = 0; x < group.nSteps * LANES; x++) rows[x] = base + 8 * group.rows[x];
     this.lens.set(group.laneSteps);
     new Int32Array(this.memory.buffer, this.at.lens, LANES).set(group.laneSteps);
+    return true;
   }
 
   forward(t0: number, t1: number, logOut: Float64Array): void {
@@ -109,8 +118,11 @@ export class WasmLaneKernels implements LaneKernels {
     kernel(this.dims.n, t0, t1, a.dwell, a.outPtr, a.outIdx, a.outProb, a.emit, a.rows, a.lens, a.table, a.scale, a.w, a.wSpare, a.emitCount, a.dwellCount, perLink ? a.linkCount : a.lastGamma, a.startCount);
   }
 
-  /** Lays the regions out for these sizes, grows the memory if needed, renews the views, zeroes the accumulators. */
-  private layout(n: number, m: number, links: number, steps: number, segment: number): void {
+  /**
+   * Lays the regions out for these sizes, grows the memory if needed, renews the views, zeroes the
+   * accumulators; false, with nothing changed, when the memory cannot grow.
+   */
+  private layout(n: number, m: number, links: number, steps: number, segment: number): boolean {
     const sizes: Array<[string, number]> = [
       ['start', 8 * n],
       ['dwell', 8 * n],
@@ -140,9 +152,7 @@ export class WasmLaneKernels implements LaneKernels {
       at[name] = offset;
       offset += align(bytes);
     }
-    const pages = Math.ceil(offset / PAGE);
-    const have = this.memory.buffer.byteLength / PAGE;
-    if (pages > have) this.memory.grow(pages - have);
+    if (!growWasmMemory(this.memory, offset)) return false;
     this.at = at;
     this.dims = { n, m, links, steps, segment };
     const buffer = this.memory.buffer;
@@ -157,6 +167,7 @@ export class WasmLaneKernels implements LaneKernels {
       startCount: f64('startCount', n),
     };
     this.chain = null;
+    return true;
   }
 
   private loadChain(chain: SparseChain): void {

@@ -1,6 +1,7 @@
 import type { SparseChain } from './sparse-chain.js';
 import { wasmModule } from './wasm-module.js';
 import { viterbiSegmentWasm } from './viterbi-segment-wasm.js';
+import { growWasmMemory, newWasmMemory } from './wasm-memory.js';
 
 type Pointers = Uint8Array | Uint16Array | Int32Array;
 interface ViterbiExports {
@@ -28,7 +29,6 @@ function viterbiModule(): WebAssembly.Module | null {
   return compiled;
 }
 
-const PAGE = 65536;
 const align = (bytes: number): number => Math.ceil(bytes / 16) * 16;
 
 /**
@@ -37,7 +37,9 @@ const align = (bytes: number): number => Math.ceil(bytes / 16) * 16;
  * linear memory for the chain (log-probabilities), the run's readings and a segment of `segment` rows
  * of back-pointers in the narrowest integer type for the cell count, and returns views on the score
  * vectors (`delta`, 2 · nCells: δ_{t0-1} in the first half before `run`, δ_{t1-1} after) and on the
- * back-pointers (row t - t0 for step t), valid until the next `prepare`. The memory grows when needed.
+ * back-pointers (row t - t0 for step t), valid until the next `prepare`. The memory starts at one page
+ * and grows when needed; `create` returns null when the runtime refuses a memory and `prepare` returns
+ * null when it refuses to grow it (the caller then runs `viterbiSegment` in JavaScript).
  */
 export class WasmViterbi {
   /** True where this runtime compiles the module. */
@@ -45,14 +47,19 @@ export class WasmViterbi {
     return typeof WebAssembly === 'object' && viterbiModule() !== null;
   }
 
-  private readonly memory = new WebAssembly.Memory({ initial: 1 });
   private readonly kernels: ViterbiExports;
   private at: Record<string, number> = {};
   private n = 0;
   private m = 0;
   private width: 1 | 2 | 4 = 1;
 
-  constructor() {
+  /** The kernel with a memory of its own, or null when the runtime refuses one (see `newWasmMemory`). */
+  static create(): WasmViterbi | null {
+    const memory = newWasmMemory();
+    return memory === null ? null : new WasmViterbi(memory);
+  }
+
+  private constructor(private readonly memory: WebAssembly.Memory) {
     const module = viterbiModule();
     if (module === null) throw new Error('WasmViterbi: WebAssembly must be available, got a runtime without it');
     this.kernels = new WebAssembly.Instance(module, { env: { memory: this.memory } }).exports as unknown as ViterbiExports;
@@ -66,12 +73,10 @@ export class WasmViterbi {
     logEmitT: Float64Array,
     obs: Int32Array,
     segment: number,
-  ): { delta: Float64Array; back: Pointers } {
+  ): { delta: Float64Array; back: Pointers } | null {
     const n = chain.nCells;
     const links = chain.inIdx.length;
-    this.n = n;
-    this.m = chain.nReadings;
-    this.width = n <= 256 ? 1 : n <= 65536 ? 2 : 4;
+    const width = n <= 256 ? 1 : n <= 65536 ? 2 : 4;
     const sizes: Array<[string, number]> = [
       ['logStart', 8 * n],
       ['logDwell', 8 * n],
@@ -81,7 +86,7 @@ export class WasmViterbi {
       ['logEmit', 8 * logEmitT.length],
       ['obs', 4 * obs.length],
       ['delta', 16 * n],
-      ['back', this.width * n * segment],
+      ['back', width * n * segment],
     ];
     const at: Record<string, number> = {};
     let offset = 0;
@@ -89,9 +94,10 @@ export class WasmViterbi {
       at[name] = offset;
       offset += align(bytes);
     }
-    const pages = Math.ceil(offset / PAGE);
-    const have = this.memory.buffer.byteLength / PAGE;
-    if (pages > have) this.memory.grow(pages - have);
+    if (!growWasmMemory(this.memory, offset)) return null;
+    this.n = n;
+    this.m = chain.nReadings;
+    this.width = width;
     this.at = at;
     const buffer = this.memory.buffer;
     new Float64Array(buffer, at.logStart, n).set(logStart);

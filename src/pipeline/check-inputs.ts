@@ -37,7 +37,8 @@ export async function checkInputs(floorPath: string, runPaths: string[], keys: K
   const warnings = [...analysis.warnings];
   let runs: RunsCheck | null = null;
   if (runPaths.length) {
-    const loaded = await loadRuns(runPaths, { surfaces: floor.surfaces, ...keys });
+    // Only the rows present are laid out: the figures below need no memory per missing step.
+    const loaded = await loadRuns(runPaths, { surfaces: floor.surfaces, ...keys, fillGaps: false });
     warnings.push(...loaded.warnings);
     const readingCounts: Record<string, number> = Object.fromEntries(floor.surfaces.map((s) => [s, 0]));
     const counts = new Float64Array(floor.surfaces.length);
@@ -51,12 +52,12 @@ export async function checkInputs(floorPath: string, runPaths: string[], keys: K
     for (const table of loaded.tables) {
       rows += table.nRows;
       for (const run of table.runs) {
-        steps += run.obs.length;
+        steps += run.nSteps;
         dropouts += run.nDropouts;
         gapSteps += run.nGapSteps;
         unknown += run.nUnknown;
-        shortest = Math.min(shortest, run.obs.length);
-        longest = Math.max(longest, run.obs.length);
+        shortest = Math.min(shortest, run.nSteps);
+        longest = Math.max(longest, run.nSteps);
         for (let t = 0; t < run.obs.length; t++) if (run.obs[t] >= 0) counts[run.obs[t]]++;
       }
     }
@@ -73,7 +74,7 @@ export async function checkInputs(floorPath: string, runPaths: string[], keys: K
       longestRun: longest,
       readingCounts,
     };
-    const tiny = loaded.runs.filter((r) => r.obs.length < 2).length;
+    const tiny = loaded.tables.reduce((k, table) => k + table.runs.filter((r) => r.nSteps < 2).length, 0);
     if (tiny) warnings.push(`${tiny} run(s) have a single step: they say little about movement`);
     if (gapSteps) warnings.push(`${gapSteps} step(s) are missing from the runs (gaps in "step"); they are decoded as dropouts`);
   }

@@ -28,6 +28,7 @@ import { TOOL_VERSION } from '../version.js';
 import { compareCells, type CellChange, type CompareOptions } from '../compare/compare-cells.js';
 import type { KeyColumns } from './key-columns.js';
 import { loadRuns } from './load-runs.js';
+import { wasmFallbackWarning } from './wasm-fallback-warning.js';
 
 export interface CompareConfig {
   model: string;
@@ -160,7 +161,7 @@ export async function compareFromFiles(config: CompareConfig, onProgress?: (p: C
     nullDraws: config.nullDraws,
     options: config.compare,
     newFloor,
-    warnings: loaded.warnings,
+    warnings: [...loaded.warnings, ...wasmFallbackWarning()],
   };
 }
 

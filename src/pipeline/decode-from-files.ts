@@ -9,6 +9,7 @@ import type { DecodeThresholds } from '../decode/decode-thresholds.js';
 import type { KeyColumns } from './key-columns.js';
 import { loadRuns } from './load-runs.js';
 import { decodeRuns, type DecodedTables } from './decode-runs.js';
+import { wasmFallbackWarning } from './wasm-fallback-warning.js';
 
 export interface DecodeConfig {
   model: string;
@@ -50,6 +51,7 @@ export async function decodeFromFiles(config: DecodeConfig, preloaded?: ModelFil
   if (decoded.impossibleRuns.length) {
     warnings.push(`${decoded.impossibleRuns.length} run(s) are impossible under the model and were not decoded: ${decoded.impossibleRuns.slice(0, 10).join(', ')}`);
   }
+  warnings.push(...wasmFallbackWarning());
   if (!skipAnnotated) await writeTable(config.out, decoded.annotated);
   if (config.summary) await writeTable(config.summary, decoded.summary);
   return { decoded, warnings, nRuns: loaded.runs.length, nRows: decoded.annotated.nRows };

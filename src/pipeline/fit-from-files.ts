@@ -12,6 +12,7 @@ import type { KeyColumns } from './key-columns.js';
 import { loadRuns } from './load-runs.js';
 import { heldOutFlags } from './held-out-flags.js';
 import { CheckpointDir } from '../io/checkpoint-dir.js';
+import { wasmFallbackWarning } from './wasm-fallback-warning.js';
 
 export interface FitConfig {
   floor: string;
@@ -62,5 +63,5 @@ export async function fitFromFiles(config: FitConfig, onProgress?: (p: FitProgre
   );
   const file: ModelFile = { name: floor.name, model: withFloorZones(result.model, floor), fit: result.record };
   await writeFileAtomic(config.out, formatModel(file));
-  return { file, warnings: loaded.warnings, nRuns: loaded.runs.length };
+  return { file, warnings: [...loaded.warnings, ...wasmFallbackWarning()], nRuns: loaded.runs.length };
 }

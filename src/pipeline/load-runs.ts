@@ -11,7 +11,10 @@ export interface LoadedRuns {
   warnings: string[];
 }
 
-/** Reads one or more runs tables; run ids must be unique across them. */
+/**
+ * Reads one or more runs tables; run ids must be unique across them, and their steps together must stay
+ * within `maxTotalSteps` of their rows (each table is told what the tables before it hold).
+ */
 export async function loadRuns(paths: string[], options: ReadRunsOptions): Promise<LoadedRuns> {
   if (paths.length === 0) throw new InputError('runs: at least one runs table must be given, got none');
   const tables: RunsTable[] = [];
@@ -19,8 +22,11 @@ export async function loadRuns(paths: string[], options: ReadRunsOptions): Promi
   const runs: LoadedRuns['runs'] = [];
   const seen = new Map<string, string>();
   const warnings: string[] = [];
+  const prior = { rows: 0, steps: 0 };
   for (const path of paths) {
-    const table = await readRuns(path, options);
+    const table = await readRuns(path, { ...options, prior: { ...prior } });
+    prior.rows += table.nRows;
+    for (const run of table.runs) prior.steps += run.nSteps;
     const t = tables.length;
     tables.push(table);
     digests.push({ file: path, sha256: await fileDigest(path) });

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { InputError } from '../../src/errors.js';
-import { parseCsv, type CsvTable } from '../../src/io/parse-csv.js';
+import { MAX_TABLE_COLUMNS, parseCsv, type CsvTable } from '../../src/io/parse-csv.js';
 
 // Source for the examples: RFC 4180 "Common Format and MIME Type for Comma-Separated Values (CSV)
 // Files", section 2, rules 1-7 and their examples (aaa,bbb,ccc / zzz,yyy,xxx). Line-end variants, the
@@ -150,5 +150,25 @@ describe('parseCsv(text, source) errors', () => {
 
   it('parseCsv(text) rejects text after a closing quote', () => {
     expectCsvError('a,b\n1,"two"x\n', 'runs.csv: line 2 field 2 must end at its closing quote, got "x\\n" after it');
+  });
+
+  it(`parseCsv(text) reads a header of ${MAX_TABLE_COLUMNS} columns and refuses one more, while reading the header`, () => {
+    const names = (k: number): string => Array.from({ length: k }, (_, j) => `c${j}`).join(',');
+    const wide = parseCsv(`${names(MAX_TABLE_COLUMNS)}\n${'x,'.repeat(MAX_TABLE_COLUMNS - 1)}x\n`, 'runs.csv');
+    expect(wide.header.length).toBe(MAX_TABLE_COLUMNS);
+    expect(wide.nRows).toBe(1);
+    expect(wide.columns[MAX_TABLE_COLUMNS - 1].get(0)).toBe('x');
+    // No data row at all: the header alone is refused, before any storage for rows is made.
+    expectCsvError(`${names(MAX_TABLE_COLUMNS + 5)}\n`, `runs.csv: header must name at most ${MAX_TABLE_COLUMNS} columns, got more (field ${MAX_TABLE_COLUMNS + 1} on line 1)`);
+  });
+
+  it('parseCsv(text) sizes row storage from the text: many columns and many line ends still read every row', () => {
+    // 300 columns, then 5000 empty lines before the rows: the line ends alone would suggest 5003 rows.
+    const header = Array.from({ length: 300 }, (_, j) => `c${j}`).join(',');
+    const row = (v: string): string => Array.from({ length: 300 }, () => v).join(',');
+    const csv = parseCsv(`${header}\n${row('1')}\n${row('2')}\r${row('3')}\r${row('4')}\n${'\n'.repeat(5000)}`, 'runs.csv');
+    expect(csv.nRows).toBe(4);
+    expect(csv.columns[299].toArray()).toEqual(['1', '2', '3', '4']);
+    expect(csv.lineOfRow(3)).toBe(5);
   });
 });

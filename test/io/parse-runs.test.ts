@@ -10,7 +10,7 @@ import {
 } from 'apache-arrow';
 import { describe, expect, it } from 'vitest';
 import { InputError } from '../../src/errors.js';
-import { MAX_GAP_STEPS } from '../../src/io/build-runs-table.js';
+import { MAX_GAP_STEPS, MAX_TOTAL_STEPS, maxTotalSteps } from '../../src/io/build-runs-table.js';
 import { runsFromArrow, runsFromCsv } from '../../src/io/parse-runs.js';
 import { DROPOUT, type ReadRunsOptions } from '../../src/io/runs-table.js';
 
@@ -469,5 +469,45 @@ describe('key columns read without a string per row (same results as reading eac
       reading: vectorFromArray(['béton', 'béto'], new Utf8()),
     });
     expect(arrowError(bad, { surfaces })).toContain('got "béto"');
+  });
+
+  it('maxTotalSteps(rows) is 1000 steps per row + 10⁶, at most 10⁸', () => {
+    expect(maxTotalSteps(0)).toBe(1_000_000);
+    expect(maxTotalSteps(400)).toBe(1_400_000);
+    expect(maxTotalSteps(10_000_000)).toBe(MAX_TOTAL_STEPS);
+  });
+
+  it('runsFromCsv(text) refuses runs spanning more steps in all than the rows allow, naming the run that crosses the limit', () => {
+    // 200 runs of two rows each, 0 and 10⁷ − 1: each run alone misses fewer than MAX_GAP_STEPS steps.
+    const lines = ['run,step,reading'];
+    for (let r = 0; r < 200; r++) lines.push(`r${r},0,oak`, `r${r},9999999,tile`);
+    expect(csvError(lines.join('\n') + '\n')).toBe(
+      'runs.csv: runs must span at most 1400000 steps in all (1000 per row + 1000000, at most 100000000; gaps count), ' +
+        'got 10000000 by run "r0" (steps 0 to 9999999 in 2 rows; is the step column a sample index?)',
+    );
+    // Within the limit: 4 rows may span 1 004 000 steps; the second run crosses it.
+    const text = 'run,step,reading\na,0,oak\na,999999,oak\nb,5,tile\nb,4005,tile\n';
+    expect(csvError(text)).toContain('got 1004001 by run "b" (steps 5 to 4005 in 2 rows;');
+    expect(runsFromCsv('run,step,reading\na,0,oak\na,999999,oak\nb,5,tile\nb,4004,tile\n', 'runs.csv', OPTIONS).runs[1].nSteps).toBe(4000);
+  });
+
+  it('runsFromCsv(text) counts earlier tables\' rows and steps against the limit (prior)', () => {
+    const text = 'run,step,reading\nb,0,tile\nb,9,tile\n';
+    expect(runsFromCsv(text, 'runs.csv', { ...OPTIONS, prior: { rows: 2, steps: 1_003_990 } }).runs[0].nSteps).toBe(10);
+    expect(csvError(text, { ...OPTIONS, prior: { rows: 2, steps: 1_003_991 } })).toContain('must span at most 1004000 steps in all');
+  });
+
+  it('runsFromCsv(text, { fillGaps: false }) keeps only the rows present and still counts the gaps', () => {
+    const text = 'run,step,reading\nr1,3,oak\nr1,7,tile\nr1,4,\nr2,0,carpet\n';
+    const filled = runsFromCsv(text, 'runs.csv', OPTIONS);
+    const rowsOnly = runsFromCsv(text, 'runs.csv', { ...OPTIONS, fillGaps: false });
+    expect([...rowsOnly.runs[0].obs]).toEqual([OAK, DROPOUT, TILE]);
+    expect([...rowsOnly.runs[0].rows]).toEqual([0, 2, 1]);
+    for (const [a, b] of filled.runs.map((run, r) => [run, rowsOnly.runs[r]] as const)) {
+      expect(b.nSteps).toBe(a.obs.length);
+      expect(a.nSteps).toBe(a.obs.length);
+      expect([b.firstStep, b.nDropouts, b.nGapSteps, b.nUnknown]).toEqual([a.firstStep, a.nDropouts, a.nGapSteps, a.nUnknown]);
+    }
+    expect(rowsOnly.runs[0].nGapSteps).toBe(2);
   });
 });

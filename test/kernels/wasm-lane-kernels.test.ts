@@ -98,7 +98,7 @@ describe('WebAssembly lane kernels', () => {
     for (const segment of [70, 9]) {
       it(`gives the JavaScript kernels’ tables, log-likelihoods and ${perLink ? 'per-link' : 'total'} counts bit for bit (segments of ${segment} steps, 7 ragged lanes)`, () => {
         const js = pass(new JsLaneKernels(), chain, runs, segment, perLink);
-        const wasm = pass(new WasmLaneKernels(), chain, runs, segment, perLink);
+        const wasm = pass(WasmLaneKernels.create()!, chain, runs, segment, perLink);
         expect(wasm.tables).toEqual(js.tables);
         expect(wasm.logs).toEqual(js.logs);
         expect(wasm.emit).toEqual(js.emit);
@@ -112,7 +112,7 @@ describe('WebAssembly lane kernels', () => {
   }
 
   it('one WasmLaneKernels serves chains and groups of different sizes in turn (memory grows, views renew)', () => {
-    const kernels = new WasmLaneKernels();
+    const kernels = WasmLaneKernels.create()!;
     const big = randomModel(8, { nCells: 40, nReadings: 3 });
     const bigChain = chainFromModel(big);
     const bigRuns = [300, 280, 290].map((T) => sampleRun(big, T, rng, 0).obs);
