@@ -42,7 +42,7 @@ const DROPOUT_RATE = 0.02;
 
 /** The two invented buildings of the calibration figures (DEVELOPERS.md) and tests. */
 export const MISSPECIFIED_SPECS: Readonly<Record<'small' | 'wide' | 'test', MisspecifiedSpec>> = {
-  test: { width: 4, height: 3, room: 1, nRuns: 140, nTestRuns: 40, nSteps: 500, dwellRange: [0.35, 0.85], linkShape: 2 },
+  test: { width: 4, height: 3, room: 1, nRuns: 110, nTestRuns: 40, nSteps: 500, dwellRange: [0.35, 0.85], linkShape: 2 },
   small: { width: 5, height: 4, room: 2, nRuns: 80, nTestRuns: 40, nSteps: 400, dwellRange: [0.35, 0.85], linkShape: 2 },
   wide: { width: 8, height: 5, room: 3, nRuns: 80, nTestRuns: 40, nSteps: 400, dwellRange: [0.2, 0.9], linkShape: 1 },
 };
