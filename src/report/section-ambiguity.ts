@@ -13,6 +13,20 @@ import { NO_DATA_COLOUR, rampColour } from './palette.js';
 const MAX_LISTED = 15;
 
 /**
+ * What `likely_p`/`path_p` mean and how well calibrated they were measured to be against known
+ * positions on the tool's own invented misspecified buildings (test/cli/calibration.test.ts and
+ * bench/calibration-figures.ts; figures in DEVELOPERS.md, "Calibration").
+ */
+const LIKELY_P_NOTE =
+  '<h3>What the decoded probabilities mean</h3>' +
+  '<p><code>likely_p</code> and <code>path_p</code> in the annotated table are posterior probabilities <em>under this model</em>, and so is every figure above: ' +
+  'the simulated runs come from the fitted model itself, so this section shows what the model believes about its own ambiguity, not whether the model is right. ' +
+  'Measured against known positions on underfoot\'s own simulated buildings whose true movement the model does not share (each cell its own dwell, unequal links): ' +
+  'where neighbouring cells read differently, the default fit\'s <code>likely_p</code> had an expected calibration error of about 0.02 (steps with <code>likely_p</code> near 0.6 were right about 60 % of the time), ' +
+  'while a fit with one building-wide dwell was overconfident (error 0.05–0.10); where rooms of several cells share one surface, every fit was overconfident about the exact cell ' +
+  '(error 0.07 and more) while the room was right about 9 times in 10. Treat hatched cells\' positions at room level.</p>';
+
+/**
  * Section 5: how often decoding recovers each cell, from runs simulated from the fitted model; maps with
  * the ambiguous cells hatched, and the least recoverable cells with the cell they are mistaken for.
  */
@@ -102,6 +116,7 @@ export function sectionAmbiguity(d: ReportData): string {
     switcher +
     `<h3>Least recoverable cells</h3>` +
     table +
+    LIKELY_P_NOTE +
     '</section>'
   );
 }
