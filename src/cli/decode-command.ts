@@ -18,10 +18,11 @@ export function registerDecode(program: Command, io: CliIo): void {
     .option('--surprising-bits <b>', 'flag readings more surprising than this many bits', String(DEFAULT_THRESHOLDS.surprisingBits))
     .addHelpText(
       'after',
-      '\nlikely_p and path_p are posterior probabilities under the model: they mean what they say only as far as\n' +
-        'the model describes the building and the robot. fit records a label-free check of its reading\n' +
-        'forecasts (predictiveCalibration in the model file, printed by fit, drawn by report); README.md,\n' +
-        '"What likely_p means", gives the calibration measured against known positions.',
+      '\nlikely_p and path_p are posterior probabilities under the model: they mean what they say\n' +
+        'only as far as the model describes the building and the robot. fit records a label-free\n' +
+        'check of its reading forecasts (predictiveCalibration in the model file, printed by fit,\n' +
+        'drawn by report); README.md, "What likely_p means", gives the calibration measured against\n' +
+        'known positions.',
     );
   addKeyColumnOptions(cmd);
   addOutputOptions(cmd);
