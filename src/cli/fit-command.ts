@@ -105,7 +105,7 @@ export function formatFitSummary(file: ModelFile, out: string): string {
   if (cal) {
     lines.push(
       '',
-      `predictive calibration on the held-out runs (chosen restart): each step's most likely next reading given the readings before it; expected calibration error ${cal.ece.toFixed(4)} over ${cal.nReadings} readings`,
+      `forecast calibration on the held-out runs (chosen restart, most likely next reading at each step):\nexpected calibration error ${cal.ece.toFixed(4)} over ${cal.nReadings} readings`,
       formatTable(
         ['forecast p', 'forecasts', 'mean forecast', 'came true'],
         cal.bins.filter((b) => b.count > 0).map((b) => [`${b.lower.toFixed(1)}–${b.upper.toFixed(1)}`, b.count, b.meanPredicted!.toFixed(3), b.observed!.toFixed(3)]),

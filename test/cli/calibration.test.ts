@@ -54,7 +54,7 @@ describe('calibration on a building the default movement model does not describe
   it('with the default options likely_p is calibrated (ECE ≤ 0.04) and exact-cell accuracy is within 3 points of the true model', () => {
     const fit = runCli(['fit', '--floor', p('floor.json'), '--runs', p('runs.csv'), '--out', p('model.json'), '--workers', '1', '-q']);
     expect(fit.code, fit.stderr).toBe(0);
-    expect(fit.stdout).toMatch(/predictive calibration on the held-out runs/);
+    expect(fit.stdout).toMatch(/forecast calibration on the held-out runs/);
     for (const [model, out] of [['model.json', 'fitted.csv'], ['truth.json', 'true.csv']]) {
       const d = runCli(['decode', '--model', p(model), '--runs', p('test.csv'), '--out', p(out)]);
       expect(d.code, d.stderr).toBe(0);
