@@ -24,7 +24,9 @@ export { expectedCounts } from './kernels/expected-counts.js';
 
 export { emIteration, type RunReadings, type EmIterationResult } from './fit/em-iteration.js';
 export { fitModel, DEFAULT_FIT_OPTIONS, type FitInput, type FitResult, type FitProgress } from './fit/fit-model.js';
-export type { FitOptions, FitRecord, LoopRecord } from './fit/fit-record.js';
+export type { FitOptions, FitRecord, LoopRecord, FitTransitions } from './fit/fit-record.js';
+export { predictiveCalibration, type PredictiveCalibration, type ReliabilityBin } from './fit/predictive-calibration.js';
+export { autoCandidates, shareRestarts } from './fit/auto-candidates.js';
 
 export { decodeRun, type DecodedRun } from './decode/decode-run.js';
 export { scoreRun } from './decode/score-run.js';

@@ -107,8 +107,10 @@ export async function fitModel(
   if (split.fit.length === 0) throw new WorkError('fit: at least one run must be left to fit on, got every run held out');
   const packed = packRuns(runs, workers > 1);
   const modes: TransitionMode[] = o.transitions === 'auto' ? autoCandidates({ movement: false }) : [o.transitions];
-  const warm = input.warmStart && o.transitions !== 'auto' ? intoFamily(input.warmStart, o.transitions, o.dwell) : input.warmStart;
-  const base = warm ?? buildModel(floor, { dwell: o.dwell, hit: o.hit });
+  const built = input.warmStart ? null : buildModel(floor, { dwell: o.dwell, hit: o.hit });
+  // Restart 0 of each mode starts from the survey prior, or from the warm start brought into that mode's family.
+  const baseOf = (mode: TransitionMode): HmmModel => built ?? intoFamily(input.warmStart!, mode, o.dwell);
+  const base = baseOf(modes[0]);
   const surfaceIndex = new Map(floor.surfaces.map((s, r) => [s, r] as const));
   const prior = input.prior ?? surveyPrior(Int32Array.from(floor.cells, (c) => surfaceIndex.get(c.surface) ?? 0), floor.surfaces.length, o.hit);
   const centre = equalSplitTransitions(base.structure, o.dwell);
@@ -151,7 +153,7 @@ export async function fitModel(
     });
     for (let k = 0; k < plan.length; k++) {
       const { mode, index, seed } = plan[k];
-      const { model: start, dwell } = startingPoint(base, mode, index, seed);
+      const { model: start, dwell } = startingPoint(baseOf(mode), mode, index, seed);
       if (k < done.length) {
         restarts.push(done[k].record);
         models.push(withParams(start, done[k].params));

@@ -53,6 +53,14 @@ describe('--transitions auto end to end (invented building with per-cell dwells 
     expect(new Set(Array.from(s.dwellPos, (k) => model.trans[k].toFixed(12))).size).toBeGreaterThan(1);
   });
 
+  it('a warm start with unequal links (--from) is brought into each candidate\'s family: no mode\'s objective decreases', async () => {
+    const { record } = await fitModel({ ...input, warmStart: b.truth }, { ...DEFAULT_FIT_OPTIONS, restarts: 4, maxIter: 30 }, 1);
+    expect(record.restarts.map((r) => r.mode)).toEqual(['fixed', 'tied', 'per-cell', 'learned']);
+    for (const r of record.restarts) {
+      for (let i = 1; i < r.history.length; i++) expect(r.history[i], `${r.mode} iteration ${i}`).toBeGreaterThanOrEqual(r.history[i - 1] - 1e-9 * Math.abs(r.history[i - 1]));
+    }
+  });
+
   it('an explicit mode records no mode per restart and fits only that mode', async () => {
     const { record } = await fitModel(input, { ...DEFAULT_FIT_OPTIONS, transitions: 'per-cell', restarts: 2, maxIter: 40 }, 1);
     expect(record.restarts).toHaveLength(2);
