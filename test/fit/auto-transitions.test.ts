@@ -61,6 +61,15 @@ describe('--transitions auto end to end (invented building with per-cell dwells 
     }
   });
 
+  it('auto gives the same model and record with 1 and 2 workers', async () => {
+    const o = { ...DEFAULT_FIT_OPTIONS, restarts: 4, maxIter: 15 };
+    const a = await fitModel(input, o, 1);
+    const c = await fitModel(input, o, 2);
+    expect(Array.from(c.model.trans)).toEqual(Array.from(a.model.trans));
+    expect(Array.from(c.model.emission)).toEqual(Array.from(a.model.emission));
+    expect(c.record).toEqual(a.record);
+  });
+
   it('an explicit mode records no mode per restart and fits only that mode', async () => {
     const { record } = await fitModel(input, { ...DEFAULT_FIT_OPTIONS, transitions: 'per-cell', restarts: 2, maxIter: 40 }, 1);
     expect(record.restarts).toHaveLength(2);
