@@ -49,8 +49,8 @@ describe('calibration on a building the default movement model does not describe
   // Target of issue 18: ECE ≤ 0.04 (met: 0.021 measured) and exact-cell accuracy within 2 points of the
   // true model's (NOT met: 0.619 vs 0.646 measured, 2.7 points). The gap is a local optimum, not the
   // transition model: the default fit swaps two look-alike cells (same surface, adjacent); EM started
-  // from the truth keeps them and lands within 0.5 points (measured with 260 runs; DEVELOPERS.md, "Calibration"). The test holds
-  // the measured 3 points so that a regression shows.
+  // from the truth keeps them apart and lands within 0.5 points (measured with 260 runs; DEVELOPERS.md,
+  // "Calibration"). The test holds the measured 3 points so that a regression shows.
   it('with the default options likely_p is calibrated (ECE ≤ 0.04) and exact-cell accuracy is within 3 points of the true model', () => {
     const fit = runCli(['fit', '--floor', p('floor.json'), '--runs', p('runs.csv'), '--out', p('model.json'), '--workers', '1', '-q']);
     expect(fit.code, fit.stderr).toBe(0);
