@@ -26,7 +26,9 @@ export { positionSummary, positionWorkSize, type PositionGroups, type PositionPa
 
 export { emIteration, type RunReadings, type EmIterationResult } from './fit/em-iteration.js';
 export { fitModel, DEFAULT_FIT_OPTIONS, type FitInput, type FitResult, type FitProgress } from './fit/fit-model.js';
-export type { FitOptions, FitRecord, LoopRecord } from './fit/fit-record.js';
+export type { FitOptions, FitRecord, LoopRecord, FitTransitions } from './fit/fit-record.js';
+export { predictiveCalibration, type PredictiveCalibration, type ReliabilityBin } from './fit/predictive-calibration.js';
+export { autoCandidates, shareRestarts } from './fit/auto-candidates.js';
 
 export { decodeRun, type DecodedRun, type DecodeOptions } from './decode/decode-run.js';
 export { positionLayout, type PositionLayout } from './decode/position-layout.js';

@@ -15,7 +15,15 @@ export function registerDecode(program: Command, io: CliIo): void {
     .option('--summary <file>', 'run summary table to write')
     .option('--floor <file>', 'floor file to check the model against')
     .option('--low-confidence <p>', 'flag steps whose path cell has posterior below this', String(DEFAULT_THRESHOLDS.lowConfidence))
-    .option('--surprising-bits <b>', 'flag readings more surprising than this many bits', String(DEFAULT_THRESHOLDS.surprisingBits));
+    .option('--surprising-bits <b>', 'flag readings more surprising than this many bits', String(DEFAULT_THRESHOLDS.surprisingBits))
+    .addHelpText(
+      'after',
+      '\nlikely_p and path_p are posterior probabilities under the model: they mean what they say\n' +
+        'only as far as the model describes the building and the robot. fit records a label-free\n' +
+        'check of its reading forecasts (predictiveCalibration in the model file, printed by fit,\n' +
+        'drawn by report); README.md, "What likely_p means", gives the calibration measured against\n' +
+        'known positions.',
+    );
   addKeyColumnOptions(cmd);
   addOutputOptions(cmd);
   cmd.action(async (opts: Record<string, unknown>) => {

@@ -20,10 +20,11 @@ export function registerFit(program: Command, io: CliIo): void {
     .option('--holdout <f>', 'fraction of runs held out (whole runs) to choose the restart', '0.2')
     .option('--holdout-col <col>', 'column whose value "held-out" marks held-out runs (instead of --holdout)')
     .option('--seed <s>', 'master seed', '1')
-    .option('--transitions <mode>', 'fixed | tied | learned', 'tied')
+    .option('--transitions <mode>', 'auto | fixed | tied | per-cell | learned; auto fits fixed, tied, per-cell and learned (restarts shared out among them, at least one each) and keeps the best held-out', 'auto')
     .option('--dwell <d>', 'starting (or fixed) dwell probability', '0.5')
     .option('--hit <p>', 'prior probability that a cell reads as its surveyed surface', '0.8')
     .option('--prior-strength <w>', 'pseudo-readings per cell behind the survey prior (0 = maximum likelihood)', '10')
+    .option('--transition-prior-strength <w>', 'pseudo-transitions per cell behind the per-cell and learned transition priors, centred on --dwell with links equal (0 = maximum likelihood)', '20')
     .option('--max-iter <n>', 'most EM iterations per restart', '200')
     .option('--tol <x>', 'relative change of log-likelihood per reading that counts as converged', '1e-6')
     .option('--workers <n>', 'threads for the E-step, the main one included (default: the number of cores)')
@@ -79,23 +80,37 @@ export function fitConfig(opts: Record<string, unknown>): FitConfig {
 /** The restarts table and the chosen model, as printed after a fit. */
 export function formatFitSummary(file: ModelFile, out: string): string {
   const fit = file.fit!;
+  const byMode = fit.restarts.some((r) => r.mode !== undefined);
   const rows = fit.restarts.map((r, k) => [
     k === fit.selected ? `${k + 1} *` : String(k + 1),
+    ...(byMode ? [r.mode ?? ''] : []),
     r.seed,
     r.iterations,
     r.stopReason,
     r.trainLogLikPerReading.toFixed(5),
     r.heldOutLogLikPerReading === null ? '—' : r.heldOutLogLikPerReading.toFixed(5),
   ]);
+  const chosenMode = byMode ? `, transitions ${fit.restarts[fit.selected].mode}` : '';
   const lines = [
     `${file.name}: ${file.model.cells.length} cells, ${fit.split.fit.length} runs fitted, ${fit.split.heldOut.length} held out (${fit.nReadings.fit} + ${fit.nReadings.heldOut} readings)`,
     '',
-    formatTable(['restart', 'seed', 'iterations', 'stop', 'train loglik/reading', 'held-out loglik/reading'], rows).trimEnd(),
+    formatTable(['restart', ...(byMode ? ['mode'] : []), 'seed', 'iterations', 'stop', 'train loglik/reading', 'held-out loglik/reading'], rows).trimEnd(),
     '',
-    `chosen: restart ${fit.selected + 1} (best ${fit.selectedBy === 'held-out' ? 'held-out' : 'training'} log-likelihood per reading)`,
+    `chosen: restart ${fit.selected + 1}${chosenMode} (best ${fit.selectedBy === 'held-out' ? 'held-out' : 'training'} log-likelihood per reading)`,
   ];
   if (fit.finalPass) {
     lines.push(`final pass on all runs: ${fit.finalPass.iterations} iterations, ${fit.finalPass.stopReason}, loglik/reading ${fit.finalPass.trainLogLikPerReading.toFixed(5)}`);
+  }
+  const cal = fit.predictiveCalibration;
+  if (cal) {
+    lines.push(
+      '',
+      `forecast calibration on the held-out runs (chosen restart, most likely next reading at each step):\nexpected calibration error ${cal.ece.toFixed(4)} over ${cal.nReadings} readings`,
+      formatTable(
+        ['forecast p', 'forecasts', 'mean forecast', 'came true'],
+        cal.bins.filter((b) => b.count > 0).map((b) => [`${b.lower.toFixed(1)}–${b.upper.toFixed(1)}`, b.count, b.meanPredicted!.toFixed(3), b.observed!.toFixed(3)]),
+      ).trimEnd(),
+    );
   }
   lines.push(`wrote ${out}`);
   return lines.join('\n') + '\n';

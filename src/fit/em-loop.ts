@@ -1,7 +1,7 @@
 import type { HmmModel, TransitionMode } from '../model/hmm-model.js';
 import type { ExpectedCountsTable } from '../model/expected-counts-table.js';
 import { maximizeModel } from '../model/maximize-model.js';
-import { emissionLogPrior } from '../model/emission-log-prior.js';
+import { emObjective, maximizeOptionsOf } from './em-objective.js';
 import { WorkError } from '../errors.js';
 import type { EStepEngine } from './e-step-engine.js';
 import type { PackedRuns } from './packed-runs.js';
@@ -14,6 +14,10 @@ export interface EmLoopOptions {
   prior: Float64Array;
   maxIter: number;
   tol: number;
+  /** Pseudo-transitions per cell behind the transition prior (`learned`, `per-cell`). @default 0 */
+  transitionPriorStrength?: number;
+  /** Centre of the transition prior, CSR order (the floor's movement model). */
+  transitionCentre?: Float64Array;
 }
 
 /** Where a loop stands after an M-step: enough to continue it exactly (checkpoints). */
@@ -59,8 +63,8 @@ const DECREASE_TOLERANCE = 1e-9;
 
 /**
  * The EM loop, in the order init → E-step → bound → M-step → report → stop: at each iteration the
- * E-step over all blocks (reduced in block order) gives the objective (log-likelihood + emission log
- * prior) per reading of the current model; the loop stops when its relative change from the previous
+ * E-step over all blocks (reduced in block order) gives the objective (log-likelihood + emission and
+ * transition log priors, `emObjective`) per reading of the current model; the loop stops when its relative change from the previous
  * iteration is below `tol` ("converged") or after `maxIter` M-steps ("max-iter"). A decrease beyond
  * rounding stops the fit with an error: EM cannot decrease its objective, so it means a defect.
  */
@@ -78,7 +82,7 @@ export async function runEm(
   const history: number[] = resume ? resume.history.slice() : [];
   for (;;) {
     const counts = reduceBlocks(model, packed, await engine.counts(model, blocks));
-    const objective = counts.logLik + emissionLogPrior(model, options.prior, options.priorStrength);
+    const objective = emObjective(model, counts, options);
     const perReading = objective / Math.max(1, counts.nReadings);
     const previous = history.length ? history[history.length - 1] : undefined;
     history.push(perReading);
@@ -96,7 +100,7 @@ export async function runEm(
     if (iterations >= options.maxIter) {
       return { model, iterations, stopReason: 'max-iter', history, logLikPerReading: counts.logLik / Math.max(1, counts.nReadings), counts };
     }
-    model = maximizeModel(model, counts, { mode: options.mode, priorStrength: options.priorStrength, prior: options.prior });
+    model = maximizeModel(model, counts, maximizeOptionsOf(options));
     iterations++;
     if (afterStep) await afterStep({ model, iterations, history: history.slice() });
     if (signal?.aborted) throw new FitInterrupted();

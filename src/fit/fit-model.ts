@@ -21,6 +21,10 @@ import { TOOL_VERSION } from '../version.js';
 import { selectRestart } from './select-restart.js';
 import { reduceBlocks } from './reduce-blocks.js';
 import type { ExpectedCountsTable } from '../model/expected-counts-table.js';
+import type { TransitionMode } from '../model/hmm-model.js';
+import { equalSplitTransitions } from '../model/equal-split-transitions.js';
+import { autoCandidates, shareRestarts } from './auto-candidates.js';
+import { predictiveCalibration } from './predictive-calibration.js';
 
 export interface FitInput {
   floor: FloorGraph;
@@ -52,15 +56,22 @@ export interface FitResult {
   record: FitRecord;
 }
 
+/**
+ * Default pseudo-transitions per cell behind the `per-cell` and `learned` transition priors (chosen by
+ * measurement on invented buildings with per-cell dwells and unequal links: DEVELOPERS.md).
+ */
+export const DEFAULT_TRANSITION_PRIOR_STRENGTH = 20;
+
 export const DEFAULT_FIT_OPTIONS: FitOptions = {
   restarts: 8,
   holdout: 0.2,
   holdoutCol: null,
   seed: 1,
-  transitions: 'tied',
+  transitions: 'auto',
   dwell: 0.5,
   hit: 0.8,
   priorStrength: 10,
+  transitionPriorStrength: DEFAULT_TRANSITION_PRIOR_STRENGTH,
   maxIter: 200,
   tol: 1e-6,
   finalPass: true,
@@ -95,16 +106,26 @@ export async function fitModel(
   const split = splitRuns(runs.length, o.holdout, o.seed, input.heldOutFlags);
   if (split.fit.length === 0) throw new WorkError('fit: at least one run must be left to fit on, got every run held out');
   const packed = packRuns(runs, workers > 1);
-  const base = input.warmStart ? intoFamily(input.warmStart, o.transitions, o.dwell) : buildModel(floor, { dwell: o.dwell, hit: o.hit });
+  const modes: TransitionMode[] = o.transitions === 'auto' ? autoCandidates({ movement: false }) : [o.transitions];
+  const built = input.warmStart ? null : buildModel(floor, { dwell: o.dwell, hit: o.hit });
+  // Restart 0 of each mode starts from the survey prior, or from the warm start brought into that mode's family.
+  const baseOf = (mode: TransitionMode): HmmModel => built ?? intoFamily(input.warmStart!, mode, o.dwell);
+  const base = baseOf(modes[0]);
   const surfaceIndex = new Map(floor.surfaces.map((s, r) => [s, r] as const));
   const prior = input.prior ?? surveyPrior(Int32Array.from(floor.cells, (c) => surfaceIndex.get(c.surface) ?? 0), floor.surfaces.length, o.hit);
-  const loopOptions: EmLoopOptions = { mode: o.transitions, priorStrength: o.priorStrength, prior, maxIter: o.maxIter, tol: o.tol };
+  const centre = equalSplitTransitions(base.structure, o.dwell);
+  const loopOptionsOf = (mode: TransitionMode): EmLoopOptions =>
+    mode === 'per-cell' || mode === 'learned'
+      ? { mode, priorStrength: o.priorStrength, prior, maxIter: o.maxIter, tol: o.tol, transitionPriorStrength: o.transitionPriorStrength ?? 0, transitionCentre: centre }
+      : { mode, priorStrength: o.priorStrength, prior, maxIter: o.maxIter, tol: o.tol };
   const fitBlocks = toBlocks(split.fit, o.blockSize);
   const heldBlocks = toBlocks(split.heldOut, o.blockSize);
   const allBlocks = toBlocks(Array.from({ length: runs.length }, (_, r) => r), o.blockSize);
-  const engine: EStepEngine = workers > 1 ? new PoolEngine(packed, workers, { mode: o.transitions }) : new LocalEngine(packed, { mode: o.transitions });
+  // One engine serves every candidate of `auto`: per-link counts (the `learned` form) fit every M-step.
+  const engineMode: TransitionMode = modes.length > 1 ? 'learned' : modes[0];
+  const engine: EStepEngine = workers > 1 ? new PoolEngine(packed, workers, { mode: engineMode }) : new LocalEngine(packed, { mode: engineMode });
   try {
-    const seeds = restartSeeds(o.seed, o.restarts);
+    const plan = restartPlan(modes, o.restarts, o.seed);
     const restarts: LoopRecord[] = [];
     const models: HmmModel[] = [];
     const store = control.checkpoint;
@@ -120,7 +141,7 @@ export async function fitModel(
       store ? store.save({ format: 'underfoot-fit-checkpoint/1', key, done, current }) : Promise.resolve();
     const loopHooks = (phase: 'restart' | 'final', k: number, start: HmmModel) => ({
       onIteration: (iteration: number, objectivePerReading: number) =>
-        onProgress?.({ phase, restart: k, restarts: o.restarts, iteration, objectivePerReading }),
+        onProgress?.({ phase, restart: k, restarts: plan.length, iteration, objectivePerReading }),
       resume:
         saved?.current && saved.current.phase === phase && saved.current.index === k
           ? { model: withParams(start, saved.current.params), iterations: saved.current.iterations, history: saved.current.history }
@@ -130,23 +151,25 @@ export async function fitModel(
         : undefined,
       signal: control.signal,
     });
-    for (let k = 0; k < o.restarts; k++) {
-      const { model: start, dwell } = startingPoint(base, o.transitions, k, seeds[k]);
+    for (let k = 0; k < plan.length; k++) {
+      const { mode, index, seed } = plan[k];
+      const { model: start, dwell } = startingPoint(baseOf(mode), mode, index, seed);
       if (k < done.length) {
         restarts.push(done[k].record);
         models.push(withParams(start, done[k].params));
         continue;
       }
-      const res = await runEm(engine, packed, start, fitBlocks, loopOptions, loopHooks('restart', k, start));
+      const res = await runEm(engine, packed, start, fitBlocks, loopOptionsOf(mode), loopHooks('restart', k, start));
       const held = heldBlocks.length ? await scoreBlocks(engine, packed, res.model, heldBlocks) : null;
       restarts.push({
-        seed: seeds[k],
+        seed,
         iterations: res.iterations,
         stopReason: res.stopReason,
         history: res.history,
         trainLogLikPerReading: res.logLikPerReading,
         heldOutLogLikPerReading: held,
         startDwell: dwell,
+        ...(modes.length > 1 ? { mode } : {}),
       });
       models.push(res.model);
       done.push({ record: restarts[k], params: paramsOf(res.model) });
@@ -154,6 +177,10 @@ export async function fitModel(
     }
     const byHeldOut = split.heldOut.length > 0;
     const selected = selectRestart(restarts, byHeldOut);
+    const selectedMode = plan[selected].mode;
+    const loopOptions = loopOptionsOf(selectedMode);
+    const heldObs = split.heldOut.map((r) => packed.obs.subarray(packed.offsets[r], packed.offsets[r + 1]));
+    const calibration = heldObs.length ? predictiveCalibration(models[selected], heldObs) : null;
     let model = models[selected];
     let finalPass: LoopRecord | null = null;
     let finalCounts: ExpectedCountsTable | null = null;
@@ -162,13 +189,14 @@ export async function fitModel(
       model = res.model;
       finalCounts = res.counts;
       finalPass = {
-        seed: seeds[selected],
+        seed: plan[selected].seed,
         iterations: res.iterations,
         stopReason: res.stopReason,
         history: res.history,
         trainLogLikPerReading: res.logLikPerReading,
         heldOutLogLikPerReading: null,
         startDwell: restarts[selected].startDwell,
+        ...(modes.length > 1 ? { mode: selectedMode } : {}),
       };
     }
     // The final pass ends with an E-step of the returned model over all runs: its counts are the ones
@@ -189,12 +217,31 @@ export async function fitModel(
       selectedBy: byHeldOut ? 'held-out' : 'training',
       finalPass,
       cellReadings,
+      predictiveCalibration: calibration,
     };
     if (store) await store.clear();
     return { model, record };
   } finally {
     await engine.close();
   }
+}
+
+/** One EM loop of the fit: its transition mode, its index among that mode's restarts, its seed. */
+interface PlannedRestart {
+  mode: TransitionMode;
+  index: number;
+  seed: number;
+}
+
+/**
+ * The restarts of a fit, in order: with one mode, `restarts` loops; with several (`auto`), the restarts
+ * shared out among them (`shareRestarts`), mode by mode. Restart k of every mode uses the k-th seed, and
+ * restart 0 of every mode starts from the survey prior (or the warm start).
+ */
+function restartPlan(modes: TransitionMode[], restarts: number, seed: number): PlannedRestart[] {
+  const counts = modes.length > 1 ? shareRestarts(restarts, modes.length) : [restarts];
+  const seeds = restartSeeds(seed, Math.max(...counts));
+  return modes.flatMap((mode, c) => Array.from({ length: counts[c] }, (_, index) => ({ mode, index, seed: seeds[index] })));
 }
 
 /** A key that changes whenever the inputs or options of a fit change (checkpoints must match it). */

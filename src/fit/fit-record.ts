@@ -1,4 +1,5 @@
 import type { TransitionMode } from '../model/hmm-model.js';
+import type { PredictiveCalibration } from './predictive-calibration.js';
 
 /** Why an EM loop stopped. */
 export type StopReason = 'converged' | 'max-iter' | 'resumed-converged';
@@ -17,7 +18,12 @@ export interface LoopRecord {
   heldOutLogLikPerReading: number | null;
   /** Starting dwell (tied/fixed modes). */
   startDwell: number;
+  /** Transition mode of this loop, recorded when `--transitions auto` fitted several modes. */
+  mode?: TransitionMode;
 }
+
+/** `fit --transitions`: one mode, or `auto` (fit the candidate modes and keep the best held-out). */
+export type FitTransitions = TransitionMode | 'auto';
 
 /** Every option of a fit, as used (defaults filled in). */
 export interface FitOptions {
@@ -25,10 +31,16 @@ export interface FitOptions {
   holdout: number;
   holdoutCol: string | null;
   seed: number;
-  transitions: TransitionMode;
+  transitions: FitTransitions;
   dwell: number;
   hit: number;
   priorStrength: number;
+  /**
+   * Pseudo-transitions per cell behind the transition prior of the `per-cell` and `learned` modes
+   * (centred on the starting dwell with an equal split over links). Absent for `fixed`/`tied` fits,
+   * which do not use it (so their model files are as before the option existed).
+   */
+  transitionPriorStrength?: number;
   maxIter: number;
   tol: number;
   finalPass: boolean;
@@ -57,4 +69,10 @@ export interface FitRecord {
    * model: the evidence behind each emission row, used by `compare` to test later runs against it.
    */
   cellReadings?: number[][];
+  /**
+   * Label-free calibration of the selected restart's model on the held-out runs (before the final
+   * pass): its one-step-ahead reading forecasts against the readings that came (null when nothing was
+   * held out). See `predictiveCalibration`.
+   */
+  predictiveCalibration?: PredictiveCalibration | null;
 }

@@ -1,7 +1,7 @@
 import type { HmmModel } from '../model/hmm-model.js';
 import type { ExpectedCountsTable } from '../model/expected-counts-table.js';
 import { maximizeModel } from '../model/maximize-model.js';
-import { emissionLogPrior } from '../model/emission-log-prior.js';
+import { emObjective, maximizeOptionsOf } from './em-objective.js';
 import type { EStepEngine } from './e-step-engine.js';
 import type { PackedRuns } from './packed-runs.js';
 import type { EmLoopOptions, EmLoopResult } from './em-loop.js';
@@ -35,8 +35,8 @@ export async function runSquarem(
 ): Promise<EmLoopResult> {
   const step = async (model: HmmModel) => {
     const counts = reduceBlocks(model, packed, await engine.counts(model, blocks));
-    const objective = (counts.logLik + emissionLogPrior(model, options.prior, options.priorStrength)) / Math.max(1, counts.nReadings);
-    return { model, counts, objective, next: () => maximizeModel(model, counts, { mode: options.mode, priorStrength: options.priorStrength, prior: options.prior }) };
+    const objective = emObjective(model, counts, options) / Math.max(1, counts.nReadings);
+    return { model, counts, objective, next: () => maximizeModel(model, counts, maximizeOptionsOf(options)) };
   };
   type Step = Awaited<ReturnType<typeof step>>;
   let iterations = 0;

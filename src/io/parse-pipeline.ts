@@ -6,7 +6,7 @@ import { PIPELINE_FORMAT, type PipelineFile } from './pipeline-file.js';
 const TOP_KEYS = ['format', 'floor', 'runs', 'columns', 'model', 'fit', 'compare', 'decode', 'out'];
 const COLUMN_KEYS = ['run', 'step', 'reading', 'unknownReadings'];
 export const PIPELINE_FIT_KEYS = [
-  'restarts', 'holdout', 'holdoutCol', 'seed', 'transitions', 'dwell', 'hit', 'priorStrength',
+  'restarts', 'holdout', 'holdoutCol', 'seed', 'transitions', 'dwell', 'hit', 'priorStrength', 'transitionPriorStrength',
   'maxIter', 'tol', 'workers', 'finalPass', 'from',
 ];
 export const PIPELINE_COMPARE_KEYS = [

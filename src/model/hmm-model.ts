@@ -5,7 +5,7 @@
  */
 
 /** How transitions are treated during fitting (CONTRACT.md, `fit --transitions`). */
-export type TransitionMode = 'fixed' | 'tied' | 'learned';
+export type TransitionMode = 'fixed' | 'tied' | 'per-cell' | 'learned';
 
 /** Sparse transition structure: every cell's dwell plus its links, in CSR and CSC over the same nonzeros. */
 export interface TransitionStructure {

@@ -1,5 +1,7 @@
 import type { HmmModel, TransitionMode } from './hmm-model.js';
 import type { ExpectedCountsTable } from './expected-counts-table.js';
+import { learnedTransitionsMap } from './learned-transitions-map.js';
+import { perCellDwellTransitions } from './per-cell-dwell-transitions.js';
 
 export interface MaximizeOptions {
   /** How transitions are updated. @default 'tied' */
@@ -8,6 +10,13 @@ export interface MaximizeOptions {
   priorStrength?: number;
   /** Survey prior rows, cells × readings (see `surveyPrior`); required when priorStrength > 0. */
   prior?: Float64Array;
+  /**
+   * Pseudo-transitions per cell behind the transition prior (`learned`, `per-cell`); 0 = maximum
+   * likelihood. @default 0
+   */
+  transitionPriorStrength?: number;
+  /** Centre of the transition prior, CSR order (see `equalSplitTransitions`); required when that strength > 0. */
+  transitionCentre?: Float64Array;
 }
 
 /**
@@ -20,7 +29,9 @@ export interface MaximizeOptions {
  * - transitions, by mode: `fixed` — unchanged; `tied` — one building-wide dwell
  *   d = Σ_i ξ_ii / Σ_i Σ_j ξ_ij over the cells that have links (the exact maximiser of
  *   D log d + L log(1 − d)), the rest split equally over each cell's links; `learned` — each row
- *   renormalised over its own nonzeros, a row with no expected transitions keeping its previous values;
+ *   renormalised over its own nonzeros, a row with no expected transitions keeping its previous values,
+ *   or with a Dirichlet prior of strength W_t centred on `transitionCentre` (`learnedTransitionsMap`);
+ *   `per-cell` — each cell its own dwell under a Beta prior (`perCellDwellTransitions`);
  * - start: re-estimated from the expected start counts in `learned` mode (it stays on the cells that
  *   could start), unchanged otherwise.
  *
@@ -37,6 +48,10 @@ export function maximizeModel(model: HmmModel, counts: ExpectedCountsTable, opti
     throw new RangeError(`maximizeModel: prior must be a ${n}×${m} table when priorStrength > 0`);
   }
   const prior = options.prior;
+  const wt = options.transitionPriorStrength ?? 0;
+  if (wt > 0 && (mode === 'learned' || mode === 'per-cell') && (!options.transitionCentre || options.transitionCentre.length !== s.nnz)) {
+    throw new RangeError(`maximizeModel: transitionCentre must have ${s.nnz} entries when transitionPriorStrength > 0`);
+  }
 
   // Emissions.
   const emission = new Float64Array(n * m);
@@ -73,15 +88,11 @@ export function maximizeModel(model: HmmModel, counts: ExpectedCountsTable, opti
         trans[k] = nLinks === 0 ? 1 : k === s.dwellPos[i] ? d : (1 - d) / nLinks;
       }
     }
+  } else if (mode === 'per-cell') {
+    const centre = options.transitionCentre;
+    trans = perCellDwellTransitions(s, counts.trans, model.trans, wt, centre ? centreDwell(model, centre) : 0);
   } else {
-    trans = new Float64Array(s.nnz);
-    for (let i = 0; i < n; i++) {
-      let total = 0;
-      for (let k = s.succPtr[i]; k < s.succPtr[i + 1]; k++) total += counts.trans[k];
-      for (let k = s.succPtr[i]; k < s.succPtr[i + 1]; k++) {
-        trans[k] = total > 0 ? counts.trans[k] / total : model.trans[k];
-      }
-    }
+    trans = learnedTransitionsMap(s, counts.trans, model.trans, wt, options.transitionCentre ?? model.trans);
   }
 
   // Start.
@@ -98,5 +109,12 @@ export function maximizeModel(model: HmmModel, counts: ExpectedCountsTable, opti
 function tiedDwell(model: HmmModel): number {
   const s = model.structure;
   for (let i = 0; i < s.nCells; i++) if (s.succPtr[i + 1] - s.succPtr[i] > 1) return model.trans[s.dwellPos[i]];
+  return 1;
+}
+
+/** The centre's dwell (the same on every cell with links: the centre is an equal-split model). */
+function centreDwell(model: HmmModel, centre: Float64Array): number {
+  const s = model.structure;
+  for (let i = 0; i < s.nCells; i++) if (s.succPtr[i + 1] - s.succPtr[i] > 1) return centre[s.dwellPos[i]];
   return 1;
 }

@@ -1,3 +1,4 @@
+import type { TransitionMode } from '../model/hmm-model.js';
 import { readFloor } from '../io/read-floor.js';
 import { readModel } from '../io/read-model.js';
 import { fileDigest } from '../io/file-digest.js';
@@ -94,10 +95,12 @@ export async function compareFromFiles(config: CompareConfig, onProgress?: (p: C
   const loaded = await loadRuns(config.runs, { surfaces: floor.surfaces, ...config.keys });
   const options: FitOptions = { ...config.fit, fromDigest: await fileDigest(config.model) };
   const floorDigest = await fileDigest(config.floor);
-  const start = intoFamily(old.model, options.transitions, options.dwell);
+  // resolveCompareOptions admits only fixed, tied and learned (never auto).
+  const mode = options.transitions as TransitionMode;
+  const start = intoFamily(old.model, mode, options.dwell);
   const search: RefitSearchOptions = {
     ...config.search,
-    loop: { mode: options.transitions, priorStrength: options.priorStrength, prior: old.model.emission.slice(), maxIter: options.maxIter, tol: options.tol },
+    loop: { mode, priorStrength: options.priorStrength, prior: old.model.emission.slice(), maxIter: options.maxIter, tol: options.tol },
   };
   const n = old.model.cells.length;
   const m = old.model.surfaces.length;
@@ -107,7 +110,7 @@ export async function compareFromFiles(config: CompareConfig, onProgress?: (p: C
   const refitOf = async (runs: ReadonlyArray<{ id: string; obs: Int32Array }>, draw: number) => {
     const packed = packRuns(runs, config.workers > 1);
     const blocks = toBlocks(runs.map((_, r) => r), options.blockSize);
-    const engine: EStepEngine = config.workers > 1 ? new PoolEngine(packed, config.workers, { mode: options.transitions }) : new LocalEngine(packed, { mode: options.transitions });
+    const engine: EStepEngine = config.workers > 1 ? new PoolEngine(packed, config.workers, { mode }) : new LocalEngine(packed, { mode });
     try {
       const found = await searchRefit(engine, packed, blocks, start, search, onProgress ? (p) => onProgress({ ...p, draw, draws: config.nullDraws }) : undefined);
       return { found, countsT: found.counts.emitT, nReadings: found.counts.nReadings };

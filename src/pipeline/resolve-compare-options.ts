@@ -28,7 +28,11 @@ export function resolveCompareOptions(
   where: string,
   flag: (key: string) => string = (k) => `--${k.replace(/[A-Z]/g, (c) => '-' + c.toLowerCase())}`,
 ): ResolvedCompareOptions {
-  const { options, workers } = resolveFitOptions({ ...raw, restarts: 1, holdout: 0, finalPass: false }, where, flag);
+  const { options, workers } = resolveFitOptions({ ...raw, transitions: raw.transitions ?? 'tied', restarts: 1, holdout: 0, finalPass: false }, where, flag);
+  if (!['fixed', 'tied', 'learned'].includes(options.transitions)) {
+    throw new InputError(`${where}: ${flag('transitions')} must be one of fixed, tied, learned (the re-fit keeps one mode), got ${quote(raw.transitions)}`);
+  }
+  delete options.transitionPriorStrength; // the re-fit's transitions have no prior
   const { num, int } = optionReader(raw, where, flag);
   return {
     compare: {

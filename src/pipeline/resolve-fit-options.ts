@@ -1,9 +1,8 @@
 import { availableParallelism } from 'node:os';
 import { InputError, quote } from '../errors.js';
 import { optionReader } from './option-reader.js';
-import { DEFAULT_FIT_OPTIONS } from '../fit/fit-model.js';
-import type { FitOptions } from '../fit/fit-record.js';
-import type { TransitionMode } from '../model/hmm-model.js';
+import { DEFAULT_FIT_OPTIONS, DEFAULT_TRANSITION_PRIOR_STRENGTH } from '../fit/fit-model.js';
+import type { FitOptions, FitTransitions } from '../fit/fit-record.js';
 
 /** Raw option values from flags (strings) or a pipeline file (JSON values), camelCase keys. */
 export type RawFitOptions = Record<string, unknown>;
@@ -22,8 +21,11 @@ export function resolveFitOptions(
   };
   const { num, int } = optionReader(raw, where, flag);
   const d = DEFAULT_FIT_OPTIONS;
-  const transitions = (raw.transitions ?? d.transitions) as TransitionMode;
-  if (!['fixed', 'tied', 'learned'].includes(transitions)) fail('transitions', 'one of fixed, tied, learned');
+  const transitions = (raw.transitions ?? d.transitions) as FitTransitions;
+  if (!['auto', 'fixed', 'tied', 'per-cell', 'learned'].includes(transitions)) fail('transitions', 'one of auto, fixed, tied, per-cell, learned');
+  // Read (and checked) whatever the mode; recorded only by the modes that use it, so fixed and tied
+  // model files stay as they were before the option existed.
+  const transitionPriorStrength = num('transitionPriorStrength', d.transitionPriorStrength ?? DEFAULT_TRANSITION_PRIOR_STRENGTH, (x) => x >= 0, 'a number ≥ 0');
   const holdoutCol = raw.holdoutCol === undefined || raw.holdoutCol === null ? null : String(raw.holdoutCol);
   if (holdoutCol !== null && holdoutCol.trim() === '') fail('holdoutCol', 'a column name');
   let finalPass = d.finalPass;
@@ -41,6 +43,7 @@ export function resolveFitOptions(
     dwell: num('dwell', d.dwell, (x) => x > 0 && x < 1, 'a probability strictly between 0 and 1'),
     hit: num('hit', d.hit, (x) => x > 0 && x <= 1, 'a probability in (0, 1]'),
     priorStrength: num('priorStrength', d.priorStrength, (x) => x >= 0, 'a number ≥ 0'),
+    ...(transitions === 'fixed' || transitions === 'tied' ? {} : { transitionPriorStrength }),
     maxIter: int('maxIter', d.maxIter, 0, 1_000_000),
     tol: num('tol', d.tol, (x) => x >= 0, 'a number ≥ 0'),
     finalPass,

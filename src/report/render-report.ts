@@ -4,6 +4,7 @@ import { REPORT_STYLE } from './report-style.js';
 import { sectionSummary } from './section-summary.js';
 import { sectionFloorMap } from './section-floor-map.js';
 import { sectionRestarts } from './section-restarts.js';
+import { sectionCalibration } from './section-calibration.js';
 import { sectionEmissions } from './section-emissions.js';
 import { sectionAmbiguity } from './section-ambiguity.js';
 import { sectionRuns } from './section-runs.js';
@@ -13,6 +14,7 @@ export const REPORT_SECTIONS: ReadonlyArray<readonly [string, string]> = [
   ['summary', 'Summary'],
   ['floor-map', 'Floor map'],
   ['restarts', 'Restarts'],
+  ['calibration', 'Forecast calibration'],
   ['emissions', 'Emission table'],
   ['ambiguity', 'Localization ambiguity'],
   ['runs', 'Runs'],
@@ -53,6 +55,7 @@ export function renderReport(d: ReportData): string {
     sectionSummary(d) + '\n' +
     sectionFloorMap(d) + '\n' +
     sectionRestarts(d) + '\n' +
+    sectionCalibration(d) + '\n' +
     sectionEmissions(d) + '\n' +
     sectionAmbiguity(d) + '\n' +
     sectionRuns(d) + '\n' +

@@ -13,6 +13,21 @@ import { NO_DATA_COLOUR, rampColour } from './palette.js';
 const MAX_LISTED = 15;
 
 /**
+ * What `likely_p`/`path_p` mean and how well calibrated they were measured to be against known
+ * positions on the tool's own invented misspecified buildings (test/cli/calibration.test.ts and
+ * bench/calibration-figures.ts; figures in DEVELOPERS.md, "Calibration").
+ */
+const LIKELY_P_NOTE =
+  '<h3>What the decoded probabilities mean</h3>' +
+  '<p><code>likely_p</code> and <code>path_p</code> in the annotated table are posterior probabilities <em>under this model</em>, and so is every figure above: ' +
+  'the simulated runs come from the fitted model itself, so this section shows what the model believes about its own ambiguity, not whether the model is right. ' +
+  'Measured against known positions on underfoot\'s own simulated buildings whose true movement the model does not share (each cell its own dwell, unequal links): ' +
+  'where neighbouring cells read differently, the default fit\'s <code>likely_p</code> had an expected calibration error of 0.016, i.e. on average within about 2 points of how often it was right, ' +
+  'while fits with one building-wide dwell were overconfident (error 0.046–0.098); where rooms of 2 × 2 cells share one surface, every fit was overconfident about the exact cell ' +
+  '(error 0.047–0.084) while the cell within 1.5 m was right 85–88 % of the time. ' +
+  'Treat hatched cells\' positions at room level.</p>';
+
+/**
  * Section 5: how often decoding recovers each cell, from runs simulated from the fitted model; maps with
  * the ambiguous cells hatched, and the least recoverable cells with the cell they are mistaken for. When
  * the model has zones: the same per zone (recovery of the true zone, on the map and in a table) — which
@@ -161,6 +176,7 @@ export function sectionAmbiguity(d: ReportData): string {
     `<h3>Least recoverable cells</h3>` +
     table +
     zoneTable +
+    LIKELY_P_NOTE +
     '</section>'
   );
 }

@@ -52,7 +52,7 @@ export function sectionSummary(d: ReportData): string {
   const html = cards.map((c) => htmlCard(c.label, c.value, c.detail)).join('');
   const opts = fit?.options;
   const how = fit && opts
-    ? `Fitted by ${fit.tool} ${fit.toolVersion}: ${opts.restarts} restarts, transitions ${opts.transitions}, survey prior hit ${opts.hit} with strength ${opts.priorStrength}, ${opts.holdoutCol ? `held-out runs marked in column ${opts.holdoutCol}` : `${formatNumber(opts.holdout, 'pct')} of runs held out`}, seed ${opts.seed}, tolerance ${opts.tol}, at most ${opts.maxIter} iterations.`
+    ? `Fitted by ${fit.tool} ${fit.toolVersion}: ${opts.restarts} restarts, transitions ${opts.transitions}${opts.transitions === 'auto' && fit.restarts[fit.selected]?.mode ? ` (chose ${fit.restarts[fit.selected].mode})` : ''}${opts.transitionPriorStrength !== undefined ? ` with transition prior strength ${opts.transitionPriorStrength}` : ''}, survey prior hit ${opts.hit} with strength ${opts.priorStrength}, ${opts.holdoutCol ? `held-out runs marked in column ${opts.holdoutCol}` : `${formatNumber(opts.holdout, 'pct')} of runs held out`}, seed ${opts.seed}, tolerance ${opts.tol}, at most ${opts.maxIter} iterations.`
     : 'This model has no fit record: it was not calibrated by underfoot fit (for example a simulation truth or a hand-made model), so there are no restarts or scores to show.';
   const notes = d.notes.length ? `<ul class="notes">${d.notes.map((n) => `<li>${escapeHtml(n)}</li>`).join('')}</ul>` : '';
   return (

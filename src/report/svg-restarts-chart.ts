@@ -41,7 +41,7 @@ export function svgRestartsChart(restarts: LoopRecord[], selected: number): stri
     const cx = x(xs[k]).toFixed(1);
     const cy = y(ys[k]).toFixed(1);
     const path = symbol(chosen ? symbolDiamond : symbolCircle, chosen ? 190 : 70)() as string;
-    const tip = `restart ${k + 1}${chosen ? ' (chosen)' : ''}: seed ${r.seed}, ${r.iterations} iterations, ${r.stopReason}; training ${formatNumber(r.trainLogLikPerReading, 'll')}, held-out ${formatNumber(r.heldOutLogLikPerReading, 'll')}`;
+    const tip = `restart ${k + 1}${r.mode ? ` (${r.mode})` : ''}${chosen ? ' (chosen)' : ''}: seed ${r.seed}, ${r.iterations} iterations, ${r.stopReason}; training ${formatNumber(r.trainLogLikPerReading, 'll')}, held-out ${formatNumber(r.heldOutLogLikPerReading, 'll')}`;
     parts.push(
       `<g class="restart-point${chosen ? ' chosen' : ''}" transform="translate(${cx},${cy})">` +
         `<path d="${path}" fill="${chosen ? SURFACE_COLOURS[1] : SURFACE_COLOURS[0]}" fill-opacity="${chosen ? 1 : 0.8}" stroke="${chosen ? INK : '#ffffff'}" stroke-width="${chosen ? 1.6 : 1}"><title>${escapeHtml(tip)}</title></path>` +

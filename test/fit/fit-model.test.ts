@@ -18,7 +18,7 @@ function simulated(nRuns: number, nSteps: number, seed: number) {
 }
 
 const input = { floor, runs: simulated(12, 150, 3), floorDigest: 'x', runsDigests: [] };
-const options = { ...DEFAULT_FIT_OPTIONS, restarts: 3, maxIter: 30 };
+const options = { ...DEFAULT_FIT_OPTIONS, transitions: 'tied' as const, restarts: 3, maxIter: 30 };
 
 describe('fitModel', () => {
   it('fitModel(input, options, 1) records every restart, a held-out split and a selected restart', async () => {

@@ -45,7 +45,7 @@ describe('fitModel selection on real fits', () => {
     // fitted runs while perturbed restarts are better on the held-out runs.
     const { record: rec } = await fitModel(
       { floor, runs, heldOutFlags, floorDigest: '', runsDigests: [] },
-      { ...DEFAULT_FIT_OPTIONS, restarts: 6, maxIter: 0, finalPass: false, seed: 3 },
+      { ...DEFAULT_FIT_OPTIONS, transitions: 'tied', restarts: 6, maxIter: 0, finalPass: false, seed: 3 },
       1,
     );
     const trainBest = selectRestart(rec.restarts, false);
