@@ -44,12 +44,14 @@ svg { display: block; max-width: 100%; height: auto; font-family: inherit; }
 figure.wide { overflow-x: auto; }
 figure.wide svg { max-width: none; }
 .chart-row, .maps { display: flex; flex-wrap: wrap; gap: 10px 28px; align-items: flex-start; }
-.chart-row > figure { flex: 0 1 auto; max-width: 540px; }
+.chart-row > figure { flex: 0 1 auto; max-width: 540px; min-width: 0; }
+.chart-row > div, .maps > * { min-width: 0; max-width: 100%; }
 .legend-row { display: flex; flex-wrap: wrap; gap: 8px 28px; align-items: center; margin: 4px 0 8px; }
 .table-row { display: flex; flex-direction: column; gap: 4px; }
-.table-wrap { overflow-x: auto; }
+.table-wrap { overflow-x: auto; max-width: 100%; }
 table.data { border-collapse: collapse; font-size: 13.5px; margin: 6px 0 8px; }
-table.data th, table.data td { padding: 4px 10px; border-bottom: 1px solid var(--rule); text-align: left; vertical-align: top; overflow-wrap: anywhere; }
+table.data th, table.data td { padding: 4px 10px; border-bottom: 1px solid var(--rule); text-align: left; vertical-align: top; overflow-wrap: normal; word-break: normal; hyphens: none; }
+table.data td { white-space: nowrap; }
 table.data th { font-size: 12px; color: var(--muted); font-weight: 600; text-transform: uppercase; letter-spacing: 0.03em; border-bottom: 2px solid var(--rule); }
 table.data td.num, table.data th.num { text-align: right; font-variant-numeric: tabular-nums; white-space: nowrap; }
 table.data tbody tr:nth-child(even) { background: #faf8f2; }
@@ -84,9 +86,17 @@ ${OVERLAY_KEYS.map((k) => `#ov-${k}:checked ~ .maps .layer-${k} { display: inlin
 footer { max-width: 1240px; margin: 0 auto; padding: 0 24px 30px; color: var(--muted); font-size: 12.5px; }
 footer code { background: none; }
 @media print {
-  html, body { background: #ffffff; }
-  header.top { background: #ffffff; color: var(--ink); border-bottom: 2px solid var(--ink); }
-  nav.toc { display: none; }
-  section { break-inside: avoid-page; border: none; padding: 0; }
+  @page { margin: 14mm; }
+  html, body { background: #ffffff; font-size: 11pt; }
+  header.top { background: #ffffff; color: var(--ink); border-bottom: 2px solid var(--ink); padding: 0 0 8px; }
+  nav.toc, .ov-tabs { display: none; }
+  main { max-width: none; padding: 0; }
+  section { border: none; border-radius: 0; padding: 0; margin: 0 0 14px; }
+  h2, h3, figcaption { break-after: avoid-page; }
+  figure, .card, .caution, tr { break-inside: avoid-page; }
+  .table-wrap, figure.wide { overflow: visible; }
+  table.data td { white-space: normal; }
+  svg, figure.wide svg { max-width: 100%; }
+  table.data tbody tr:nth-child(even), .card, code { background: none; }
 }
 `;

@@ -4,6 +4,7 @@ import { svgRestartsChart } from './svg-restarts-chart.js';
 import { svgConvergenceChart } from './svg-convergence-chart.js';
 import { htmlTable } from './html-table.js';
 import { formatNumber } from './format-number.js';
+import { restartSpreadNote } from './restart-spread-note.js';
 
 /** Section 3: every restart's training and held-out scores, the chosen one marked, and convergence curves. */
 export function sectionRestarts(d: ReportData): string {
@@ -37,6 +38,7 @@ export function sectionRestarts(d: ReportData): string {
   return (
     head +
     `<p class="lede">Each restart is EM from a different random start. ${by}${autoNote}${finalNote}</p>` +
+    `<p class="caption">${restartSpreadNote(fit)}</p>` +
     '<div class="chart-row">' +
     `<figure>${svgRestartsChart(fit.restarts, fit.selected)}<figcaption>Training against held-out log-likelihood per reading (higher is better); the diamond is the chosen restart.</figcaption></figure>` +
     `<figure>${svgConvergenceChart(fit.restarts, fit.selected, fit.finalPass, 'conv')}<figcaption>EM objective per reading (log-likelihood plus survey prior) at each iteration. Every curve should rise and flatten.</figcaption></figure>` +

@@ -29,7 +29,7 @@ export function svgConvergenceChart(restarts: LoopRecord[], selected: number, fi
   const parts = [
     `<svg class="chart" xmlns="http://www.w3.org/2000/svg" width="${W}" height="${H}" viewBox="0 0 ${W} ${H}" role="img" aria-label="Convergence of the EM objective per reading, per restart">`,
     `<defs><clipPath id="${idPrefix}-clip"><rect x="${M.left}" y="${M.top}" width="${W - M.left - M.right}" height="${H - M.top - M.bottom}"/></clipPath></defs>`,
-    svgAxis('bottom', x, { at: H - M.bottom, format: (v) => String(v), title: 'iteration', grid: [M.top, H - M.bottom] }),
+    svgAxis('bottom', x, { at: H - M.bottom, format: (v) => String(v), title: 'iteration', grid: [M.top, H - M.bottom], width: W }),
     svgAxis('left', y, { at: M.left, title: 'objective per reading', grid: [M.left, W - M.right] }),
     `<g clip-path="url(#${idPrefix}-clip)" fill="none">`,
   ];

@@ -1,5 +1,6 @@
 import { scaleLinear, scaleSqrt } from 'd3-scale';
 import { escapeHtml } from './escape-html.js';
+import { estimateTextWidth } from './estimate-text-width.js';
 import { MUTED_INK, RAMP_STOPS, INK } from './palette.js';
 
 export interface RampLegendOptions {
@@ -23,8 +24,9 @@ export interface RampLegendOptions {
  * spaced as the data are mapped: linear or square root).
  */
 export function svgRampLegend(o: RampLegendOptions): string {
-  const width = o.width ?? 260;
   const barX = 16;
+  // Wide enough for the title: a legend must never clip its own caption.
+  const width = Math.max(o.width ?? 260, barX + estimateTextWidth(o.title, 11, true) + 8);
   const barW = width - 32;
   const scale = (o.sqrt ? scaleSqrt() : scaleLinear()).domain(o.domain).range([barX, barX + barW]);
   // Candidate ticks from the scale, thinned so labels stay at least 40 px apart (a sqrt scale crowds them at the top).

@@ -33,7 +33,7 @@ export function svgRunsChart(rows: RunRow[], labelled: Set<string>): string {
   const y = scaleLinear().domain([Math.max(0, lo), Math.min(1, hi)]).range([H - M.bottom, M.top]).nice();
   const parts = [
     `<svg class="chart" xmlns="http://www.w3.org/2000/svg" width="${W}" height="${H}" viewBox="0 0 ${W} ${H}" role="img" aria-label="Runs: log-likelihood per reading against share of low-confidence steps">`,
-    svgAxis('bottom', x, { at: H - M.bottom, title: 'log-likelihood per reading (higher is better)', grid: [M.top, H - M.bottom] }),
+    svgAxis('bottom', x, { at: H - M.bottom, title: 'log-likelihood per reading (higher is better)', grid: [M.top, H - M.bottom], width: W }),
     svgAxis('left', y, { at: M.left, format: y.tickFormat(5, '.0%'), title: 'low-confidence steps', grid: [M.left, W - M.right] }),
   ];
   const shapes = { circle: symbolCircle, diamond: symbolDiamond, square: symbolSquare };

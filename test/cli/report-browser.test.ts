@@ -174,6 +174,58 @@ describe('the HTML report in headless Chromium', () => {
     console.log(`report screenshot: ${file} (${img.width} × ${img.height}, luma variance ${stats.variance.toFixed(0)}, ${stats.colours} colours)`);
   });
 
+  it.each([390, 1024, 1440])('reads at %i px: no text cell narrower than its longest word, no SVG text clipped or overlapping, with every overlay', async (width) => {
+    const { page } = await visit(p('report.html'));
+    await page.setViewportSize({ width, height: 900 });
+    const radios = await page.$$eval('input.ov-radio', (rs) => rs.map((r) => r.id));
+    const problems: string[] = [];
+    for (const radio of [null, ...radios]) {
+      if (radio) await page.evaluate((id) => ((document.getElementById(id) as HTMLInputElement).checked = true), radio);
+      problems.push(
+        ...(await page.evaluate((radio) => {
+          const found: string[] = [];
+          // Table cells: the longest word of the cell's text must fit inside the cell (no mid-word breaks).
+          const ctx = document.createElement('canvas').getContext('2d') as CanvasRenderingContext2D;
+          for (const td of Array.from(document.querySelectorAll('td, th')) as HTMLElement[]) {
+            if (td.offsetParent === null) continue;
+            const cs = getComputedStyle(td);
+            ctx.font = `${cs.fontWeight} ${cs.fontSize} ${cs.fontFamily}`;
+            const words = (td.textContent ?? '').split(/\s+/).filter(Boolean);
+            const longest = Math.max(0, ...words.map((w) => ctx.measureText(w).width));
+            const inner = td.clientWidth - parseFloat(cs.paddingLeft) - parseFloat(cs.paddingRight);
+            if (longest > inner + 1) found.push(`${radio}: cell "${td.textContent}" is ${inner.toFixed(0)} px for a ${longest.toFixed(0)} px word`);
+          }
+          // SVG text: inside its drawing, and not on top of another label of the same drawing.
+          const boxes = new Map<SVGSVGElement, Array<{ r: DOMRect; text: string }>>();
+          for (const t of Array.from(document.querySelectorAll('svg text')) as SVGTextElement[]) {
+            const svg = t.ownerSVGElement as SVGSVGElement;
+            const r = t.getBoundingClientRect();
+            if (r.width === 0 || svg.getBoundingClientRect().width === 0) continue;
+            const b = svg.getBoundingClientRect();
+            if (r.left < b.left - 0.5 || r.right > b.right + 0.5 || r.top < b.top - 0.5 || r.bottom > b.bottom + 0.5) {
+              found.push(`${radio}: text "${t.textContent}" is clipped by its drawing`);
+            }
+            const list = boxes.get(svg) ?? [];
+            boxes.set(svg, list);
+            for (const o of list) {
+              const dx = Math.min(r.right, o.r.right) - Math.max(r.left, o.r.left);
+              const dy = Math.min(r.bottom, o.r.bottom) - Math.max(r.top, o.r.top);
+              if (dx > 1 && dy > 1 && !svg.classList.contains('floor-map')) found.push(`${radio}: text "${t.textContent}" overlaps "${o.text}"`);
+            }
+            list.push({ r, text: t.textContent ?? '' });
+          }
+          return found;
+        }, radio)),
+      );
+    }
+    mkdirSync(SCREENSHOT_DIR, { recursive: true });
+    await page.screenshot({ path: join(SCREENSHOT_DIR, `report-${width}px.png`), fullPage: true });
+    // Nothing sticks out of the page sideways: wide tables and maps scroll inside their own box.
+    expect(await page.evaluate(() => document.documentElement.scrollWidth)).toBeLessThanOrEqual(width);
+    await page.close();
+    expect([...new Set(problems)]).toEqual([]);
+  });
+
   it('shows hostile labels from the floor and the runs as text, and runs nothing', async () => {
     const { page, seen } = await visit(p('hostile.html'));
     expect(seen.dialogs).toEqual([]);
