@@ -1,6 +1,7 @@
 import { dirname, resolve } from 'node:path';
 import { InputError, quote } from '../errors.js';
 import { parseJsonDocument } from './parse-json-document.js';
+import { checkKeys } from './json-fields.js';
 import { PIPELINE_FORMAT, type PipelineFile } from './pipeline-file.js';
 
 const TOP_KEYS = ['format', 'floor', 'runs', 'columns', 'model', 'fit', 'compare', 'decode', 'out'];
@@ -24,7 +25,7 @@ export function parsePipeline(text: string, source: string): PipelineFile {
   const fail = (what: string): never => {
     throw new InputError(`${source}: ${what}`);
   };
-  const doc = parseJsonDocument(text, source, 'pipeline file');
+  const doc = parseJsonDocument(text, source);
   const root = object(doc, 'the pipeline file', fail);
   if (root.format !== PIPELINE_FORMAT) fail(`"format" must be ${quote(PIPELINE_FORMAT)}, got ${quote(root.format)}`);
   keys(root, TOP_KEYS, 'the pipeline file', fail);
@@ -98,7 +99,9 @@ function object(v: unknown, where: string, fail: (w: string) => never): Record<s
 }
 
 function keys(o: Record<string, unknown>, allowed: string[], where: string, fail: (w: string) => never): void {
-  for (const k of Object.keys(o)) {
-    if (!allowed.includes(k)) fail(`${where}: key ${quote(k)} is not allowed (allowed: ${allowed.join(', ')})`);
+  try {
+    checkKeys(o, allowed, where);
+  } catch (err) {
+    fail((err as Error).message);
   }
 }

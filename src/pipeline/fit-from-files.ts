@@ -57,7 +57,7 @@ export async function fitFromFiles(config: FitConfig, onProgress?: (p: FitProgre
     options,
     config.workers,
     onProgress,
-    { checkpoint: config.checkpoint ? new CheckpointDir(config.checkpoint) : undefined, signal: config.signal },
+    { checkpoint: config.checkpoint ? new CheckpointDir(config.checkpoint) : undefined, signal: config.signal, configKey: JSON.stringify(config.keys) },
   );
   const file: ModelFile = { name: floor.name, model: result.model, fit: result.record };
   await writeFileAtomic(config.out, formatModel(file));
