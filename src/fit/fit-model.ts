@@ -80,7 +80,7 @@ export const DEFAULT_FIT_OPTIONS: FitOptions = {
 export interface FitControl {
   /** Saves the fit's state after every iteration and resumes from it (`fit --checkpoint DIR`). */
   checkpoint?: CheckpointStore;
-  /** Stops the fit after the current iteration (its checkpoint saved) with `FitInterrupted`. */
+  /** Stops the fit after the current iteration (its checkpoint saved) with `InterruptedError`. */
   signal?: AbortSignal;
   /**
    * Everything else that shaped the data read (e.g. the runs tables' key columns and the unknown-readings

@@ -30,7 +30,7 @@ export interface PipelineOutcome {
 export async function runPipeline(
   path: string,
   onProgress?: (p: FitProgress | CompareProgress) => void,
-  overrides: { workers?: number } = {},
+  overrides: { workers?: number; signal?: AbortSignal } = {},
 ): Promise<PipelineOutcome> {
   const p = await readPipeline(path);
   const keys: KeyColumns = {
@@ -71,7 +71,7 @@ export async function runPipeline(
   let fit: FitOutcome | null = null;
   if (fitOpts) {
     fit = await fitFromFiles(
-      { floor: p.floor, runs: p.runs, out: p.out.model!, from: fitOpts.from, options: fitOpts.options, workers: fitOpts.workers, keys },
+      { floor: p.floor, runs: p.runs, out: p.out.model!, from: fitOpts.from, options: fitOpts.options, workers: fitOpts.workers, keys, signal: overrides.signal },
       onProgress,
     );
     written.push(p.out.model!);
