@@ -40,7 +40,8 @@ export function resolveFitOptions(
     transitions,
     dwell: num('dwell', d.dwell, (x) => x > 0 && x < 1, 'a probability strictly between 0 and 1'),
     hit: num('hit', d.hit, (x) => x > 0 && x <= 1, 'a probability in (0, 1]'),
-    priorStrength: num('priorStrength', d.priorStrength, (x) => x >= 0, 'a number ≥ 0'),
+    // Above 1e9 pseudo-readings per cell the objective's prior term overflows; no data set needs more.
+    priorStrength: num('priorStrength', d.priorStrength, (x) => x >= 0 && x <= 1e9, 'a number from 0 to 1e9'),
     maxIter: int('maxIter', d.maxIter, 0, 1_000_000),
     tol: num('tol', d.tol, (x) => x >= 0, 'a number ≥ 0'),
     finalPass,
