@@ -19,12 +19,12 @@ export function installInterruptHandlers(io: CliIo): void {
   const onSignal = (signal: InterruptSignal): void => {
     signals++;
     if (cooperative && signals === 1) {
-      io.err(`\nunderfoot: ${signal}: stopping after the current iteration (again to stop at once)\n`);
+      // Silent: the command's one error line says what happened and how to resume.
       cooperative.abort(signal);
       return;
     }
     removeTemporaryFiles();
-    io.err(`\nunderfoot: stopped by ${signal}; unfinished outputs were not written\n`);
+    io.err(`underfoot: stopped by ${signal}; outputs not finished were not written (exit ${INTERRUPT_EXIT_CODES[signal]})\n`);
     process.exit(INTERRUPT_EXIT_CODES[signal]);
   };
   process.on('SIGINT', () => onSignal('SIGINT'));
