@@ -3,7 +3,7 @@ import { spawn, spawnSync } from 'node:child_process';
 import { createHash } from 'node:crypto';
 import { createWriteStream, linkSync, mkdirSync, readdirSync, readFileSync, statSync, symlinkSync, writeFileSync, copyFileSync, lstatSync } from 'node:fs';
 import { join } from 'node:path';
-import { Int32, Table, Utf8, tableToIPC, vectorFromArray } from 'apache-arrow';
+import { Int32, Table, Utf8, tableFromArrays, tableToIPC, vectorFromArray } from 'apache-arrow';
 import { BIN, runCli, tempDir, type CliResult } from '../helpers/run-cli.js';
 import { gridFloor } from '../helpers/grid-floor.js';
 
@@ -186,6 +186,16 @@ describe('input files: size cap, endless streams, damaged values', () => {
     bytes[at + 5] = 0xff; // the third row's id: "r\xff"
     writeFileSync(p('bad-ids.arrow'), bytes);
     refuses(['check', '--floor', 'floor.json', '--runs', 'bad-ids.arrow'], 'bad-ids.arrow', 'column "run" at row 3 must be UTF-8 text');
+  });
+
+  it('a dictionary-encoded Arrow reading whose bytes are not UTF-8 is one line naming the column and row', () => {
+    const table = tableFromArrays({ run: ['r1', 'r1', 'r1'], step: Int32Array.from([0, 1, 2]), reading: ['oak', 'tile', 'oak'] });
+    const bytes = Buffer.from(tableToIPC(table, 'file'));
+    const at = bytes.indexOf(Buffer.from('oaktile'));
+    expect(at).toBeGreaterThan(0);
+    bytes[at + 4] = 0xc3; // "tile" becomes "t\xc3le": a lead byte without its continuation
+    writeFileSync(p('bad-dict.arrow'), bytes);
+    refuses(['check', '--floor', 'floor.json', '--runs', 'bad-dict.arrow'], 'bad-dict.arrow', 'column "reading" at row 2 must be UTF-8 text');
   });
 
   it('an Arrow stream cut at a record-batch boundary is refused, naming the rows it holds', () => {
