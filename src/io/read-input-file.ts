@@ -24,6 +24,16 @@ export async function readInputFile(path: string, maxBytes: number = MAX_TABLE_B
     if (stat.isFile() && stat.size > maxBytes) throw tooLarge(path, maxBytes, `${stat.size} bytes`, what);
     const chunks: Buffer[] = [];
     let total = 0;
+    if (stat.isFile() && stat.size > 0) {
+      // A regular file is read into one buffer of its size (no second copy), then read on in case it grew.
+      const whole = Buffer.allocUnsafe(stat.size);
+      while (total < whole.length) {
+        const { bytesRead } = await handle.read(whole, total, whole.length - total, null);
+        if (bytesRead === 0) break;
+        total += bytesRead;
+      }
+      chunks.push(total === whole.length ? whole : whole.subarray(0, total));
+    }
     for (;;) {
       const want = Math.min(CHUNK, maxBytes + 1 - total);
       const buf = Buffer.allocUnsafe(Math.max(1, want));
