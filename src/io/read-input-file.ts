@@ -7,6 +7,12 @@ export const MAX_JSON_BYTES = 256 * 1024 * 1024;
 /** Largest runs or other table read: 2 GiB (a Node buffer's practical limit; larger tables: split them). */
 export const MAX_TABLE_BYTES = 2 * 1024 * 1024 * 1024;
 
+/**
+ * Largest CSV table read: 1 GiB. Its text must fit in one JavaScript string (about 2^29 characters), so
+ * a larger CSV could not be parsed anyway; reading stops here rather than at 2 GiB.
+ */
+export const MAX_CSV_BYTES = 1024 * 1024 * 1024;
+
 const CHUNK = 1024 * 1024;
 
 /**
