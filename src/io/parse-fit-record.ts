@@ -50,6 +50,9 @@ export function parseFitRecord(value: unknown, where: string, cells: number, sur
     throw new InputError(`${at('selectedBy')} must be "held-out" or "training", got ${got(r.selectedBy)}`);
   }
   record.selectedBy = r.selectedBy;
+  // Expected readings of a cell cannot exceed all readings of the fit (a hand-edited 1e308 would
+  // overflow compare's statistics).
+  const maxCount = (record.nReadings.fit + record.nReadings.heldOut) * (1 + 1e-9) + 1;
   if (r.cellReadings !== undefined) {
     if (!Array.isArray(r.cellReadings) || r.cellReadings.length !== cells) {
       throw new InputError(`${at('cellReadings')} must have one row per cell (${cells}), got ${Array.isArray(r.cellReadings) ? `${r.cellReadings.length} rows` : got(r.cellReadings)}`);
@@ -59,7 +62,7 @@ export function parseFitRecord(value: unknown, where: string, cells: number, sur
       if (!Array.isArray(row) || row.length !== surfaces) throw new InputError(`${w} must have one count per surface (${surfaces}), got ${got(row)}`);
       return row.map((v: unknown, k) => {
         const x = expectFinite(v, `${w}[${k}]`);
-        if (x < 0) throw new InputError(`${w}[${k}] must be an expected count ≥ 0, got ${x}`);
+        if (x < 0 || x > maxCount) throw new InputError(`${w}[${k}] must be an expected count from 0 to the fit's ${Math.floor(maxCount)} readings, got ${x}`);
         return x;
       });
     });
