@@ -1,3 +1,4 @@
+import { createHash } from 'node:crypto';
 import { open, type FileHandle } from 'node:fs/promises';
 import { InputError } from '../errors.js';
 
@@ -14,6 +15,13 @@ export const MAX_TABLE_BYTES = 2 * 1024 * 1024 * 1024;
 export const MAX_CSV_BYTES = 1024 * 1024 * 1024;
 
 const CHUNK = 1024 * 1024;
+
+/**
+ * Digests of inputs that are not regular files (a FIFO, `<(…)`, a device), taken from the bytes read:
+ * such an input can be read only once, so `fileDigest` must not open it again (it would block or read
+ * nothing).
+ */
+export const streamDigests = new Map<string, string>();
 
 /**
  * Reads a whole input file, turning the usual file-system failures into one-line InputErrors that name
@@ -49,7 +57,9 @@ export async function readInputFile(path: string, maxBytes: number = MAX_TABLE_B
       if (total > maxBytes) throw tooLarge(path, maxBytes, 'more', what);
       chunks.push(bytesRead === buf.length ? buf : buf.subarray(0, bytesRead));
     }
-    return chunks.length === 1 ? chunks[0] : Buffer.concat(chunks, total);
+    const bytes = chunks.length === 1 ? chunks[0] : Buffer.concat(chunks, total);
+    if (!stat.isFile()) streamDigests.set(path, `sha256:${createHash('sha256').update(bytes).digest('hex')}`);
+    return bytes;
   } catch (err) {
     if (err instanceof InputError) throw err;
     throw new InputError(`${path}: ${describeReadFailure(err, what)}`);

@@ -144,6 +144,21 @@ describe('input files: size cap, endless streams, damaged values', () => {
     expect(snapshot()).toEqual(before);
   }, 60_000);
 
+  it('fit --runs <a FIFO> reads it once: the digest comes from the bytes read (opening it again would block)', () => {
+    const fifo = p('runs.fifo.csv');
+    expect(spawnSync('mkfifo', [fifo]).status).toBe(0);
+    const writer = spawn('sh', ['-c', 'cat runs.csv > runs.fifo.csv'], { cwd: tmp.dir, stdio: 'ignore' });
+    const r = spawnSync(process.execPath, [BIN, 'fit', '--floor', 'floor.json', '--runs', 'runs.fifo.csv', '--out', 'fifo-model.json', '--restarts', '1', '--max-iter', '2', '--workers', '1', '--quiet'], {
+      cwd: tmp.dir,
+      encoding: 'utf8',
+      timeout: 60_000,
+    });
+    writer.kill();
+    expect(r.status, r.stderr).toBe(0);
+    const digest = createHash('sha256').update(readFileSync(p('runs.csv'))).digest('hex');
+    expect(JSON.parse(readFileSync(p('fifo-model.json'), 'utf8')).fit.runsDigests).toEqual([{ file: 'runs.fifo.csv', sha256: `sha256:${digest}` }]);
+  }, 90_000);
+
   it('a model with "fit": {} is refused at read time', () => {
     const doc = JSON.parse(modelText());
     doc.fit = {};
