@@ -9,7 +9,8 @@ let cooperative: AbortController | null = null;
  * SIGINT and SIGTERM, handled alike. While a fit runs (`cooperativeStop`), the first signal asks it to
  * stop after the current iteration (its checkpoint saved); the command then ends with the interrupt
  * error (exit 130 for SIGINT, 143 for SIGTERM). Any other time, or on a second signal, the process
- * removes its temporary files and exits at once with the same code: outputs not yet renamed into place
+ * removes its temporary files and ends at once by the signal itself (the shell's status is then the same
+ * 130 or 143): outputs not yet renamed into place
  * are not written, and files written before stay whole (every write is atomic). A closed stdout or
  * stderr (EPIPE, e.g. `check --json | head -c 10`) ends the process quietly. On every exit the
  * temporary files of unfinished writes are removed.
@@ -25,10 +26,16 @@ export function installInterruptHandlers(io: CliIo): void {
     }
     removeTemporaryFiles();
     io.err(`underfoot: stopped by ${signal}; outputs not finished were not written (exit ${INTERRUPT_EXIT_CODES[signal]})\n`);
-    process.exit(INTERRUPT_EXIT_CODES[signal]);
+    // Die of the signal itself (the shell reports 128 + its number): `process.exit` would wait for
+    // file-system work blocked in the thread pool (e.g. opening a FIFO nobody writes) and never end.
+    process.removeListener('SIGINT', onSigint);
+    process.removeListener('SIGTERM', onSigterm);
+    process.kill(process.pid, signal);
   };
-  process.on('SIGINT', () => onSignal('SIGINT'));
-  process.on('SIGTERM', () => onSignal('SIGTERM'));
+  const onSigint = (): void => onSignal('SIGINT');
+  const onSigterm = (): void => onSignal('SIGTERM');
+  process.on('SIGINT', onSigint);
+  process.on('SIGTERM', onSigterm);
   process.on('exit', removeTemporaryFiles);
   for (const stream of [process.stdout, process.stderr]) {
     stream.on('error', (err: NodeJS.ErrnoException) => {
