@@ -35,12 +35,23 @@ export function quote(value: unknown): string {
   return text.length > 80 ? `${text.slice(0, 77)}...` : text;
 }
 
-/** A long operation stopped on request (SIGINT): exit 130, the shell's convention for Ctrl-C. */
-export class FitInterruptedError extends Error {
-  readonly exitCode = 130;
-  constructor(message: string) {
+/** The signals that stop a command cleanly, and their exit codes (128 + signal number, the shell's convention). */
+export const INTERRUPT_EXIT_CODES = { SIGINT: 130, SIGTERM: 143 } as const;
+export type InterruptSignal = keyof typeof INTERRUPT_EXIT_CODES;
+
+/**
+ * The one interrupt error: a long operation stopped on request (SIGINT → exit 130, SIGTERM → exit 143),
+ * thrown by the fit's EM loop when its abort signal fires (the signal's reason names the signal).
+ */
+export class InterruptedError extends Error {
+  readonly exitCode: number;
+  constructor(
+    message: string,
+    readonly signal: InterruptSignal = 'SIGINT',
+  ) {
     super(message);
-    this.name = 'FitInterruptedError';
+    this.name = 'InterruptedError';
+    this.exitCode = INTERRUPT_EXIT_CODES[signal] ?? 130;
   }
 }
 

@@ -6,8 +6,8 @@ import { addKeyColumnOptions, addOutputOptions, keyColumnsFrom } from './common-
 import type { CliIo } from './cli-io.js';
 import { fitProgress } from './progress.js';
 import { formatTable } from './format-table.js';
-import { FitInterrupted } from '../fit/em-loop.js';
-import { FitInterruptedError } from '../errors.js';
+import { InterruptedError } from '../errors.js';
+import { cooperativeStop, endCooperativeStop } from './interrupts.js';
 
 export function registerFit(program: Command, io: CliIo): void {
   const cmd = program
@@ -36,23 +36,22 @@ export function registerFit(program: Command, io: CliIo): void {
   cmd.action(async (opts: Record<string, unknown>) => {
     const config = fitConfig(opts);
     const progress = fitProgress(io, Boolean(opts.quiet));
-    const stop = new AbortController();
-    const onSigint = (): void => stop.abort();
-    process.once('SIGINT', onSigint);
+    const signal = cooperativeStop();
     let outcome;
     try {
-      outcome = await fitFromFiles({ ...config, signal: stop.signal }, progress.onProgress);
+      outcome = await fitFromFiles({ ...config, signal }, progress.onProgress);
     } catch (err) {
-      if (err instanceof FitInterrupted) {
-        throw new FitInterruptedError(
+      if (err instanceof InterruptedError) {
+        throw new InterruptedError(
           config.checkpoint
-            ? `fit interrupted; the checkpoint in ${config.checkpoint} is complete: run the same command again to resume`
-            : 'fit interrupted; nothing was written (use --checkpoint DIR to make long fits resumable)',
+            ? `fit interrupted (${err.signal}); the checkpoint in ${config.checkpoint} is complete: run the same command again to resume`
+            : `fit interrupted (${err.signal}); nothing was written (use --checkpoint DIR to make long fits resumable)`,
+          err.signal,
         );
       }
       throw err;
     } finally {
-      process.removeListener('SIGINT', onSigint);
+      endCooperativeStop();
       progress.done();
     }
     for (const w of outcome.warnings) io.err(`warning: ${w}\n`);

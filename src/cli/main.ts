@@ -1,5 +1,5 @@
 import { Command, CommanderError } from 'commander';
-import { InputError, WorkError, FitInterruptedError, isOutOfMemory, outOfMemoryError } from '../errors.js';
+import { InputError, WorkError, InterruptedError, isOutOfMemory, outOfMemoryError } from '../errors.js';
 import { TOOL_VERSION } from '../version.js';
 import { processIo, type CliIo } from './cli-io.js';
 import { registerCheck } from './check-command.js';
@@ -40,7 +40,7 @@ export async function main(argv: string[], io: CliIo = processIo): Promise<numbe
       if (err.code === 'commander.helpDisplayed' || err.code === 'commander.version' || err.code === 'commander.help') return 0;
       return 2; // commander has already printed its one-line message
     }
-    if (err instanceof InputError || err instanceof WorkError || err instanceof FitInterruptedError) {
+    if (err instanceof InputError || err instanceof WorkError || err instanceof InterruptedError) {
       io.err(`underfoot: ${err.message}\n`);
       if (debug && err.stack) io.err(err.stack + '\n');
       return err.exitCode;

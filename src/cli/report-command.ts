@@ -36,7 +36,7 @@ export function registerReport(program: Command, io: CliIo): void {
 export function reportConfig(opts: Record<string, unknown>): ReportConfig {
   const ambiguity: Partial<AmbiguityOptions> = {
     runs: numberOption(opts.simRuns, 'report', '--sim-runs', (x) => Number.isInteger(x) && x >= 1 && x <= 100_000, 'a whole number from 1 to 100000'),
-    seed: numberOption(opts.seed, 'report', '--seed', (x) => Number.isInteger(x), 'a whole number'),
+    seed: numberOption(opts.seed, 'report', '--seed', (x) => Number.isInteger(x) && x >= 0 && x <= 2 ** 31 - 1, 'a whole number from 0 to 2147483647'),
     threshold: numberOption(opts.ambiguousBelow, 'report', '--ambiguous-below', (x) => x > 0 && x <= 1, 'a probability in (0, 1]'),
   };
   if (opts.simSteps !== undefined) {

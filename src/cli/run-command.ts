@@ -6,6 +6,8 @@ import { compareProgress } from './progress.js';
 import { formatCompareSummary } from './compare-command.js';
 import { formatFitSummary } from './fit-command.js';
 import { formatDecodeSummary } from './decode-command.js';
+import { cooperativeStop, endCooperativeStop } from './interrupts.js';
+import { InterruptedError } from '../errors.js';
 
 export function registerRun(program: Command, io: CliIo): void {
   const cmd = program
@@ -18,10 +20,15 @@ export function registerRun(program: Command, io: CliIo): void {
     const workers = opts.workers === undefined ? undefined : numberOption(opts.workers, 'run', '--workers', (x) => Number.isInteger(x) && x >= 1, 'a whole number ≥ 1');
     const progress = compareProgress(io, Boolean(opts.quiet));
     let res;
+    const signal = cooperativeStop();
     try {
       const { runPipeline } = await import('../pipeline/run-pipeline.js');
-      res = await runPipeline(path, progress.onProgress, { workers });
+      res = await runPipeline(path, progress.onProgress, { workers, signal });
+    } catch (err) {
+      if (err instanceof InterruptedError) throw new InterruptedError(`pipeline interrupted (${err.signal}) during the fit; nothing more was written`, err.signal);
+      throw err;
     } finally {
+      endCooperativeStop();
       progress.done();
     }
     for (const w of res.warnings) io.err(`warning: ${w}\n`);

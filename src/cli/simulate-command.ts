@@ -1,3 +1,4 @@
+import { InputError } from '../errors.js';
 import type { Command } from 'commander';
 import { simulateToFile, type SimulateConfig } from '../pipeline/simulate-to-file.js';
 import { addOutputOptions, numberOption } from './common-options.js';
@@ -26,17 +27,26 @@ export function registerSimulate(program: Command, io: CliIo): void {
   });
 }
 
+/** The most rows one `simulate` writes (10^8: a few GB of CSV; larger sets: several runs of the command). */
+export const MAX_SIMULATED_ROWS = 100_000_000;
+
 /** Flags → checked simulate config (pure). */
 export function simulateConfig(opts: Record<string, unknown>): SimulateConfig {
   const w = 'simulate';
-  const int = (k: string, flag: string, min: number) => numberOption(opts[k], w, flag, (x) => Number.isInteger(x) && x >= min, `a whole number ≥ ${min}`);
+  const int = (k: string, flag: string, min: number, max: number) =>
+    numberOption(opts[k], w, flag, (x) => Number.isInteger(x) && x >= min && x <= max, `a whole number from ${min} to ${max}`);
   const prob = (k: string, flag: string, ok: (x: number) => boolean, req: string) => numberOption(opts[k], w, flag, ok, req);
+  const runs = int('runs', '--runs', 1, 1_000_000);
+  const steps = int('steps', '--steps', 1, MAX_SIMULATED_ROWS);
+  if (runs * steps > MAX_SIMULATED_ROWS) {
+    throw new InputError(`${w}: --runs × --steps must be at most ${MAX_SIMULATED_ROWS} rows, got ${runs} × ${steps} = ${runs * steps}`);
+  }
   return {
     floor: String(opts.floor),
     model: opts.model ? String(opts.model) : null,
-    runs: int('runs', '--runs', 1),
-    steps: int('steps', '--steps', 1),
-    seed: int('seed', '--seed', 0),
+    runs,
+    steps,
+    seed: int('seed', '--seed', 0, 2 ** 31 - 1),
     out: String(opts.out),
     hit: prob('hit', '--hit', (x) => x > 0 && x <= 1, 'a probability in (0, 1]'),
     dwell: prob('dwell', '--dwell', (x) => x > 0 && x < 1, 'a probability strictly between 0 and 1'),

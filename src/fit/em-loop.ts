@@ -2,7 +2,7 @@ import type { HmmModel, TransitionMode } from '../model/hmm-model.js';
 import type { ExpectedCountsTable } from '../model/expected-counts-table.js';
 import { maximizeModel } from '../model/maximize-model.js';
 import { emObjective, maximizeOptionsOf } from './em-objective.js';
-import { WorkError } from '../errors.js';
+import { InterruptedError, WorkError } from '../errors.js';
 import type { EStepEngine } from './e-step-engine.js';
 import type { PackedRuns } from './packed-runs.js';
 import type { StopReason } from './fit-record.js';
@@ -34,17 +34,10 @@ export interface EmLoopHooks {
   resume?: EmLoopState;
   /** Called after every M-step (e.g. to save a checkpoint) before the next E-step. */
   afterStep?: (state: EmLoopState) => Promise<void>;
-  /** Checked after every M-step (and its checkpoint): when aborted, the loop stops with `FitInterrupted`. */
+  /** Checked after every M-step (and its checkpoint): when aborted, the loop stops with `InterruptedError` (its checkpoint, if any, complete). */
   signal?: AbortSignal;
 }
 
-/** Thrown when a fit is stopped on request (SIGINT); its checkpoint, if any, is complete. */
-export class FitInterrupted extends Error {
-  constructor() {
-    super('the fit was interrupted');
-    this.name = 'FitInterrupted';
-  }
-}
 
 export interface EmLoopResult {
   model: HmmModel;
@@ -103,6 +96,6 @@ export async function runEm(
     model = maximizeModel(model, counts, maximizeOptionsOf(options));
     iterations++;
     if (afterStep) await afterStep({ model, iterations, history: history.slice() });
-    if (signal?.aborted) throw new FitInterrupted();
+    if (signal?.aborted) throw new InterruptedError('the fit was interrupted', signal.reason === 'SIGTERM' ? 'SIGTERM' : 'SIGINT');
   }
 }

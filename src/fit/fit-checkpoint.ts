@@ -1,32 +1,7 @@
-import type { LoopRecord } from './fit-record.js';
+import type { FitCheckpoint } from '../model/fit-checkpoint-data.js';
 
-/** The numbers of a model that change during a fit (structure and names come from the floor). */
-export interface CheckpointParams {
-  start: number[];
-  trans: number[];
-  emission: number[];
-}
-
-/** Where an interrupted loop stood after its last M-step. */
-export interface CheckpointLoop {
-  phase: 'restart' | 'final';
-  /** Restart index (for the final pass: the selected restart). */
-  index: number;
-  iterations: number;
-  history: number[];
-  params: CheckpointParams;
-}
-
-/**
- * Everything needed to resume a fit exactly: finished restarts (records and final parameters) and the
- * loop in progress. `key` ties it to the inputs and options it was made for.
- */
-export interface FitCheckpoint {
-  format: 'underfoot-fit-checkpoint/1';
-  key: string;
-  done: Array<{ record: LoopRecord; params: CheckpointParams }>;
-  current: CheckpointLoop | null;
-}
+// The checkpoint's data types live in src/model (src/io reads and writes them).
+export type { CheckpointParams, CheckpointLoop, FitCheckpoint } from '../model/fit-checkpoint-data.js';
 
 /** Where checkpoints live (implemented in src/io/; the fit only sees this interface). */
 export interface CheckpointStore {

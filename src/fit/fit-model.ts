@@ -12,6 +12,8 @@ import { startingPoint } from './starting-point.js';
 import { runEm, type EmLoopOptions, type EmLoopState } from './em-loop.js';
 import type { CheckpointParams, CheckpointStore, FitCheckpoint } from './fit-checkpoint.js';
 import { InputError } from '../errors.js';
+import { createHash } from 'node:crypto';
+import { checkCheckpoint } from './check-checkpoint.js';
 import { impossibleRunError } from './impossible-run-error.js';
 import type { EStepEngine } from './e-step-engine.js';
 import { LocalEngine } from './local-engine.js';
@@ -89,8 +91,14 @@ export const DEFAULT_FIT_OPTIONS: FitOptions = {
 export interface FitControl {
   /** Saves the fit's state after every iteration and resumes from it (`fit --checkpoint DIR`). */
   checkpoint?: CheckpointStore;
-  /** Stops the fit after the current iteration (its checkpoint saved) with `FitInterrupted`. */
+  /** Stops the fit after the current iteration (its checkpoint saved) with `InterruptedError`. */
   signal?: AbortSignal;
+  /**
+   * Everything else that shaped the data read (e.g. the runs tables' key columns and the unknown-readings
+   * rule), as normalized text: part of the checkpoint's key, so a checkpoint is resumed only by the
+   * same command. The runs' ids and readings as read are part of the key as well.
+   */
+  configKey?: string;
 }
 
 export async function fitModel(
@@ -129,13 +137,14 @@ export async function fitModel(
     const restarts: LoopRecord[] = [];
     const models: HmmModel[] = [];
     const store = control.checkpoint;
-    const key = checkpointKey(input, o);
+    const key = store ? checkpointKey(input, o, control.configKey ?? '') : '';
     const saved = store ? await store.load() : null;
     if (saved && saved.key !== key) {
       throw new InputError(
-        `${store!.where}: the checkpoint must have been made by the same fit (same floor, runs and options), got one from another fit; remove it or choose another --checkpoint folder`,
+        `${store!.where}: the checkpoint must have been made by the same fit (same floor, runs, columns and options), got one from another fit; remove it or choose another --checkpoint folder`,
       );
     }
+    if (saved) checkCheckpoint(saved, base, o.restarts, o.maxIter, store!.where);
     const done: FitCheckpoint['done'] = saved ? saved.done.slice() : [];
     const save = (current: FitCheckpoint['current']): Promise<void> =>
       store ? store.save({ format: 'underfoot-fit-checkpoint/1', key, done, current }) : Promise.resolve();
@@ -244,9 +253,24 @@ function restartPlan(modes: TransitionMode[], restarts: number, seed: number): P
   return modes.flatMap((mode, c) => Array.from({ length: counts[c] }, (_, index) => ({ mode, index, seed: seeds[index] })));
 }
 
-/** A key that changes whenever the inputs or options of a fit change (checkpoints must match it). */
-function checkpointKey(input: FitInput, o: FitOptions): string {
-  return JSON.stringify({ floor: input.floorDigest, runs: input.runsDigests.map((r) => r.sha256), options: o, nRuns: input.runs.length });
+/**
+ * A key that changes whenever anything that shapes the numbers changes (checkpoints must match it): a
+ * digest of the floor and runs files, every fit option, the caller's `configKey` (key columns, unknown
+ * readings), the held-out flags, the warm start and prior, and the runs exactly as read (ids and
+ * readings), so an option added later that changes what is read changes the key by itself.
+ */
+function checkpointKey(input: FitInput, o: FitOptions, configKey: string): string {
+  const h = createHash('sha256');
+  h.update(JSON.stringify({ floor: input.floorDigest, runs: input.runsDigests.map((r) => r.sha256), options: o, nRuns: input.runs.length, config: configKey }));
+  h.update(JSON.stringify(input.heldOutFlags ?? null));
+  for (const a of [input.warmStart?.start, input.warmStart?.trans, input.warmStart?.emission, input.prior]) {
+    h.update(a ? new Uint8Array(a.buffer, a.byteOffset, a.byteLength) : new Uint8Array(0));
+  }
+  for (const run of input.runs) {
+    h.update(JSON.stringify(run.id));
+    h.update(new Uint8Array(run.obs.buffer, run.obs.byteOffset, run.obs.byteLength));
+  }
+  return `sha256:${h.digest('hex')}`;
 }
 
 function paramsOf(model: HmmModel): CheckpointParams {

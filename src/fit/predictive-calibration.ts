@@ -2,34 +2,8 @@ import type { HmmModel } from '../model/hmm-model.js';
 import { chainFromModel } from '../model/chain-from-model.js';
 import { predictiveReliability } from '../kernels/predictive-reliability.js';
 
-/** One bin of the reliability table of the model's top reading forecasts. */
-export interface ReliabilityBin {
-  /** Forecast probabilities in [lower, upper) (the last bin includes 1). */
-  lower: number;
-  upper: number;
-  /** Forecasts in the bin (steps with a reading whose top forecast fell here). */
-  count: number;
-  /** Mean forecast probability in the bin (null when empty). */
-  meanPredicted: number | null;
-  /** Share of those forecasts that came true (null when empty). */
-  observed: number | null;
-}
-
-/**
- * Label-free calibration of a model on runs: at every step with a reading, the model's most likely next
- * reading given the readings before it (one-step-ahead forecast from the forward pass) and its
- * probability, binned; `ece` = Σ_b (count_b / N)·|meanPredicted_b − observed_b| (expected calibration
- * error). The counts sum to the runs' readings. It checks the model's forecasts of readings, not its
- * positions: a model can forecast readings well and still place the robot in the wrong one of two
- * look-alike rooms.
- */
-export interface PredictiveCalibration {
-  /** What was forecast: the top reading of each step's one-step-ahead forecast. */
-  forecast: 'top-reading';
-  nReadings: number;
-  bins: ReliabilityBin[];
-  ece: number;
-}
+export type { ReliabilityBin, PredictiveCalibration } from '../model/fit-record.js';
+import type { PredictiveCalibration, ReliabilityBin } from '../model/fit-record.js';
 
 /** Number of equal-width probability bins of the reliability table. */
 export const CALIBRATION_BINS = 10;

@@ -1,4 +1,5 @@
 import { InputError, quote } from '../errors.js';
+import { isWellFormedText } from './json-fields.js';
 import { listForMessage } from './list-for-message.js';
 import { DROPOUT, type InputColumn, type ReadRunsOptions, type RunSequence, type RunsTable } from './runs-table.js';
 
@@ -105,6 +106,9 @@ export function buildRunsTable(input: KeyedRows, options: ReadRunsOptions): Runs
     // Rows of one run usually follow each other: skip the map then.
     let r = runId === lastRunId ? lastRun : runIndex.get(runId);
     if (r === undefined) {
+      if (!isWellFormedText(runId)) {
+        throw new InputError(`${source}: run at ${locate(row)} must be a run id of well-formed Unicode text, got ${quote(runId)} with a lone surrogate`);
+      }
       r = runIds.length;
       runIndex.set(runId, r);
       runIds.push(runId);
@@ -144,6 +148,8 @@ export function buildRunsTable(input: KeyedRows, options: ReadRunsOptions): Runs
     }
     if (code !== undefined) {
       codeOfRow[row] = code;
+    } else if (!isWellFormedText(label)) {
+      throw new InputError(`${source}: reading at run ${quote(runId)} step ${step} must be well-formed Unicode text, got ${quote(label)} with a lone surrogate`);
     } else if (unknownAsDropout) {
       codeOfRow[row] = UNKNOWN;
       unknownLabels.set(label, (unknownLabels.get(label) ?? 0) + 1);

@@ -1,7 +1,9 @@
-import { mkdir, readFile, rm } from 'node:fs/promises';
+import { mkdir, rm, stat } from 'node:fs/promises';
+import { InputError } from '../errors.js';
 import { join } from 'node:path';
-import { InputError, quote } from '../errors.js';
-import type { CheckpointStore, FitCheckpoint } from '../fit/fit-checkpoint.js';
+import type { FitCheckpoint } from '../model/fit-checkpoint-data.js';
+import { parseCheckpoint } from './parse-checkpoint.js';
+import { readJsonText } from './read-json-file.js';
 import { writeFileAtomic } from './write-atomic.js';
 
 const FILE = 'fit-checkpoint.json';
@@ -10,8 +12,9 @@ const FILE = 'fit-checkpoint.json';
  * A fit checkpoint kept as `fit-checkpoint.json` in a folder (`fit --checkpoint DIR`), rewritten
  * atomically after every iteration, so a killed fit leaves either the previous or the new state.
  * Numbers are written in JavaScript's shortest round-trip form, so a resumed fit continues bit for bit.
+ * Read like every JSON input (`readJsonText`, `parseCheckpoint`): damage is one line naming the file.
  */
-export class CheckpointDir implements CheckpointStore {
+export class CheckpointDir {
   readonly where: string;
 
   constructor(private readonly dir: string) {
@@ -19,23 +22,17 @@ export class CheckpointDir implements CheckpointStore {
   }
 
   async load(): Promise<FitCheckpoint | null> {
-    let text: string;
     try {
-      text = await readFile(this.where, 'utf8');
+      await stat(this.where);
     } catch (err) {
       if ((err as NodeJS.ErrnoException).code === 'ENOENT') return null;
-      throw new InputError(`${this.where}: the checkpoint must be readable, got ${(err as NodeJS.ErrnoException).code ?? String(err)}`);
     }
-    let doc: FitCheckpoint;
     try {
-      doc = JSON.parse(text) as FitCheckpoint;
-    } catch {
-      throw new InputError(`${this.where}: the checkpoint must be valid JSON, got a damaged file; remove it to start the fit afresh`);
+      return parseCheckpoint(await readJsonText(this.where), this.where);
+    } catch (err) {
+      if (err instanceof InputError) throw new InputError(`${err.message}; remove the checkpoint to start the fit afresh`);
+      throw err;
     }
-    if (doc?.format !== 'underfoot-fit-checkpoint/1' || typeof doc.key !== 'string' || !Array.isArray(doc.done)) {
-      throw new InputError(`${this.where}: the checkpoint must be an underfoot-fit-checkpoint/1 file, got ${quote(doc?.format)}`);
-    }
-    return doc;
   }
 
   async save(checkpoint: FitCheckpoint): Promise<void> {

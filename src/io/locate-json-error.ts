@@ -16,7 +16,7 @@ export interface JsonProblem {
 }
 
 /** Nesting deeper than this is reported rather than risking the call stack. */
-export const MAX_JSON_DEPTH = 512;
+export const MAX_JSON_DEPTH = 64;
 
 class Problem {
   constructor(

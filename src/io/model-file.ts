@@ -1,5 +1,5 @@
 import type { HmmModel } from '../model/hmm-model.js';
-import type { FitRecord } from '../fit/fit-record.js';
+import type { FitRecord } from '../model/fit-record.js';
 
 /** Format marker of model files. */
 export const MODEL_FORMAT = 'underfoot-model/1';

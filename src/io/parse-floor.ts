@@ -1,7 +1,8 @@
 import { InputError, quote } from '../errors.js';
 import type { FloorCell, FloorGraph, FloorLink, Georeference } from '../model/floor-graph.js';
 import { listForMessage } from './list-for-message.js';
-import { locateJsonError } from './locate-json-error.js';
+import { parseJsonDocument } from './parse-json-document.js';
+import { checkKeys, got, isObject, isWellFormedText } from './json-fields.js';
 
 /**
  * Parses and validates an `underfoot-floor/1` file (CONTRACT.md, "Floor file"). Every problem is one
@@ -9,15 +10,15 @@ import { locateJsonError } from './locate-json-error.js';
  * keys, repeated keys and wrong types are errors. Cells and links keep the file's order.
  */
 export function parseFloor(text: string, source: string): FloorGraph {
-  const doc = parseJson(text.charCodeAt(0) === 0xfeff ? text.slice(1) : text, source);
+  const doc = parseJsonDocument(text, source);
   if (!isObject(doc)) throw new InputError(`${source}: top level must be a JSON object, got ${got(doc)}`);
 
   // A wrong format first (another kind of file has other keys), but a misspelt "format" key is named.
   const formatError = `${source}: "format" must be ${quote(FLOOR_FORMAT)}, got ${got(doc.format)}`;
   if (doc.format !== undefined && doc.format !== FLOOR_FORMAT) throw new InputError(formatError);
-  checkKeys(doc, TOP_KEYS, `${source}: top-level key`);
+  checkKeys(doc, TOP_KEYS, `${source}: top-level`);
   if (doc.format !== FLOOR_FORMAT) throw new InputError(formatError);
-  if (typeof doc.name !== 'string') throw new InputError(`${source}: "name" must be a string, got ${got(doc.name)}`);
+  if (typeof doc.name !== 'string' || !isWellFormedText(doc.name)) throw new InputError(`${source}: "name" must be a string of well-formed text, got ${got(doc.name)}`);
 
   const surfaces = parseSurfaces(doc.surfaces, source);
   const cells = parseCells(doc.cells, surfaces, source);
@@ -34,43 +35,9 @@ const CELL_KEYS = ['id', 'surface', 'x', 'y', 'level', 'start', 'zone'];
 const GEOREFERENCE_KEYS = ['lat', 'lon', 'bearing'];
 const LINK_KEYS = ['from', 'to', 'oneway'];
 
-type JsonObject = Record<string, unknown>;
-
-function isObject(value: unknown): value is JsonObject {
-  return typeof value === 'object' && value !== null && !Array.isArray(value);
-}
-
-/** `quote`, except that non-finite numbers (JSON's 1e999 reads as Infinity) are shown as such. */
-function got(value: unknown): string {
-  if (typeof value === 'number' && !Number.isFinite(value)) return String(value);
-  if (Array.isArray(value) && value.length === 0) return 'an empty list';
-  return quote(value);
-}
-
-function parseJson(text: string, source: string): unknown {
-  const problem = locateJsonError(text);
-  if (problem) {
-    const at = `line ${problem.line}, column ${problem.column}`;
-    if (problem.kind === 'repeated-key') {
-      throw new InputError(`${source}: each object must name a key once, got ${problem.what} at ${at}`);
-    }
-    throw new InputError(`${source}: file must be valid JSON, got ${problem.what} at ${at}`);
-  }
-  try {
-    return JSON.parse(text) as unknown;
-  } catch (err) {
-    // Only reached if the scanner and JSON.parse ever disagree.
-    throw new InputError(`${source}: file must be valid JSON, got ${quote((err as Error).message)}`);
-  }
-}
-
-function checkKeys(obj: JsonObject, allowed: readonly string[], where: string): void {
-  for (const key of Object.keys(obj)) {
-    if (!allowed.includes(key)) {
-      throw new InputError(`${where} must be one of ${allowed.map((k) => quote(k)).join(', ')}, got ${quote(key)}`);
-    }
-  }
-}
+/** Cell coordinates beyond this many metres are refused: no building is that large, and squares and
+ * sums of larger values overflow in the report's geometry. */
+export const MAX_COORDINATE_METRES = 1e9;
 
 function parseSurfaces(value: unknown, source: string): string[] {
   if (!Array.isArray(value) || value.length === 0) {
@@ -80,6 +47,9 @@ function parseSurfaces(value: unknown, source: string): string[] {
   value.forEach((surface: unknown, i) => {
     if (typeof surface !== 'string' || surface === '') {
       throw new InputError(`${source}: surfaces[${i}] must be a non-empty string, got ${got(surface)}`);
+    }
+    if (!isWellFormedText(surface)) {
+      throw new InputError(`${source}: surfaces[${i}] must be well-formed Unicode text, got ${got(surface)} with a lone surrogate`);
     }
     const first = firstAt.get(surface);
     if (first !== undefined) {
@@ -100,9 +70,12 @@ function parseCells(value: unknown, surfaces: string[], source: string): FloorCe
     if (!isObject(raw)) throw new InputError(`${source}: cells[${i}] must be an object, got ${got(raw)}`);
     const hasId = typeof raw.id === 'string' && raw.id !== '';
     const where = hasId ? `${source}: cell ${quote(raw.id)} (cells[${i}])` : `${source}: cells[${i}]`;
-    checkKeys(raw, CELL_KEYS, `${where} key`);
+    checkKeys(raw, CELL_KEYS, where);
     if (!hasId) throw new InputError(`${where} "id" must be a non-empty string, got ${got(raw.id)}`);
     const id = raw.id as string;
+    if (!isWellFormedText(id)) {
+      throw new InputError(`${where} "id" must be well-formed Unicode text, got ${got(id)} with a lone surrogate`);
+    }
     const first = firstAt.get(id);
     if (first !== undefined) {
       throw new InputError(`${where} "id" must be unique, got ${quote(id)} again (also cells[${first}])`);
@@ -118,8 +91,8 @@ function parseCells(value: unknown, surfaces: string[], source: string): FloorCe
     }
     for (const key of ['x', 'y'] as const) {
       const v = raw[key];
-      if (typeof v !== 'number' || !Number.isFinite(v)) {
-        throw new InputError(`${where} "${key}" must be a finite number (metres), got ${got(v)}`);
+      if (typeof v !== 'number' || !Number.isFinite(v) || Math.abs(v) > MAX_COORDINATE_METRES) {
+        throw new InputError(`${where} "${key}" must be a finite number of metres within ±${MAX_COORDINATE_METRES}, got ${got(v)}`);
       }
     }
     const level = raw.level === undefined ? 0 : raw.level;
@@ -165,7 +138,7 @@ function parseLinks(value: unknown, cellIndex: Map<string, number>, source: stri
   const links: FloorLink[] = [];
   value.forEach((raw: unknown, i) => {
     if (!isObject(raw)) throw new InputError(`${source}: links[${i}] must be an object, got ${got(raw)}`);
-    checkKeys(raw, LINK_KEYS, `${source}: links[${i}] key`);
+    checkKeys(raw, LINK_KEYS, `${source}: links[${i}]`);
     for (const key of ['from', 'to'] as const) {
       if (typeof raw[key] !== 'string') {
         throw new InputError(`${source}: links[${i}] "${key}" must be a cell id, got ${got(raw[key])}`);

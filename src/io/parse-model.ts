@@ -1,8 +1,10 @@
 import { InputError, quote } from '../errors.js';
 import { buildStructure } from '../model/build-structure.js';
 import type { HmmModel, ModelCell } from '../model/hmm-model.js';
-import type { FitRecord } from '../fit/fit-record.js';
 import { parseJsonDocument } from './parse-json-document.js';
+import { checkKeys, isWellFormedText } from './json-fields.js';
+import { parseFitRecord } from './parse-fit-record.js';
+import { MAX_COORDINATE_METRES } from './parse-floor.js';
 import { MODEL_FORMAT, type ModelFile } from './model-file.js';
 
 /** Rows of probabilities must sum to 1 within this (they are written with full precision). */
@@ -16,12 +18,12 @@ export function parseModel(text: string, source: string): ModelFile {
   const fail = (what: string): never => {
     throw new InputError(`${source}: ${what}`);
   };
-  const doc = parseJsonDocument(text, source, 'model file');
+  const doc = parseJsonDocument(text, source);
   const root = asObject(doc, 'the model file', fail);
   if (root.format !== MODEL_FORMAT) fail(`"format" must be ${quote(MODEL_FORMAT)}, got ${quote(root.format)}`);
   allowKeys(root, ['format', 'name', 'surfaces', 'cells', 'links', 'emission', 'fit'], 'the model file', fail);
-  const name = typeof root.name === 'string' ? root.name : fail(`"name" must be a string, got ${quote(root.name)}`);
-  if (!Array.isArray(root.surfaces) || root.surfaces.length === 0 || !root.surfaces.every((s) => typeof s === 'string' && s.length > 0)) {
+  const name = typeof root.name === 'string' && isWellFormedText(root.name) ? root.name : fail(`"name" must be a string of well-formed text, got ${quote(root.name)}`);
+  if (!Array.isArray(root.surfaces) || root.surfaces.length === 0 || !root.surfaces.every((s) => typeof s === 'string' && s.length > 0 && isWellFormedText(s))) {
     fail(`"surfaces" must be a non-empty list of names, got ${quote(root.surfaces)}`);
   }
   const surfaces = root.surfaces as string[];
@@ -38,7 +40,7 @@ export function parseModel(text: string, source: string): ModelFile {
   rawCells.forEach((raw, i) => {
     const c = asObject(raw, `cell ${i + 1}`, fail);
     allowKeys(c, ['id', 'surface', 'x', 'y', 'level', 'zone', 'start', 'dwell'], `cell ${i + 1}`, fail);
-    if (typeof c.id !== 'string' || c.id.length === 0) fail(`cell ${i + 1}: "id" must be a non-empty string, got ${quote(c.id)}`);
+    if (typeof c.id !== 'string' || c.id.length === 0 || !isWellFormedText(c.id)) fail(`cell ${i + 1}: "id" must be a non-empty string of well-formed text, got ${quote(c.id)}`);
     const id = c.id as string;
     if (index.has(id)) fail(`cell ${quote(id)}: ids must be unique, got it twice`);
     index.set(id, i);
@@ -46,10 +48,15 @@ export function parseModel(text: string, source: string): ModelFile {
       fail(`cell ${quote(id)}: "surface" must be one of the model's surfaces, got ${quote(c.surface)}`);
     }
     for (const key of ['x', 'y'] as const) {
-      if (typeof c[key] !== 'number' || !Number.isFinite(c[key])) fail(`cell ${quote(id)}: "${key}" must be a finite number, got ${quote(c[key])}`);
+      const v = c[key];
+      if (typeof v !== 'number' || !Number.isFinite(v) || Math.abs(v) > MAX_COORDINATE_METRES) {
+        fail(`cell ${quote(id)}: "${key}" must be a finite number of metres within ±${MAX_COORDINATE_METRES}, got ${quote(v)}`);
+      }
     }
-    if (!Number.isInteger(c.level)) fail(`cell ${quote(id)}: "level" must be an integer, got ${quote(c.level)}`);
-    if (c.zone !== undefined && (typeof c.zone !== 'string' || c.zone.length === 0)) fail(`cell ${quote(id)}: "zone" must be a non-empty string, got ${quote(c.zone)}`);
+    if (!Number.isSafeInteger(c.level)) fail(`cell ${quote(id)}: "level" must be an integer, got ${quote(c.level)}`);
+    if (c.zone !== undefined && (typeof c.zone !== 'string' || c.zone.length === 0 || !isWellFormedText(c.zone))) {
+      fail(`cell ${quote(id)}: "zone" must be a non-empty string of well-formed text, got ${quote(c.zone)}`);
+    }
     start[i] = probability(c.start, `cell ${quote(id)}: "start"`, fail);
     dwell[i] = probability(c.dwell, `cell ${quote(id)}: "dwell"`, fail);
     cells.push({ id, surface: c.surface as string, x: c.x as number, y: c.y as number, level: c.level as number, ...(c.zone !== undefined ? { zone: c.zone as string } : {}) });
@@ -63,8 +70,8 @@ export function parseModel(text: string, source: string): ModelFile {
   (root.links as unknown[]).forEach((raw, l) => {
     const link = asObject(raw, `link ${l + 1}`, fail);
     allowKeys(link, ['from', 'to', 'p'], `link ${l + 1}`, fail);
-    const from = index.get(link.from as string);
-    const to = index.get(link.to as string);
+    const from = typeof link.from === 'string' ? index.get(link.from) : undefined;
+    const to = typeof link.to === 'string' ? index.get(link.to) : undefined;
     if (from === undefined) fail(`link ${l + 1}: "from" must name a cell, got ${quote(link.from)}`);
     if (to === undefined) fail(`link ${l + 1}: "to" must name a cell, got ${quote(link.to)}`);
     if (from === to) fail(`link ${l + 1}: a link must join two different cells, got ${quote(link.from)} to itself`);
@@ -97,7 +104,7 @@ export function parseModel(text: string, source: string): ModelFile {
     checkSum(emission.subarray(i * m, (i + 1) * m), where, fail);
   });
 
-  const fit = root.fit === undefined || root.fit === null ? null : (asObject(root.fit, '"fit"', fail) as unknown as FitRecord);
+  const fit = root.fit === undefined || root.fit === null ? null : parseFitRecord(root.fit, `${source}: fit`, n, m);
   const model: HmmModel = { surfaces: surfaces.slice(), cells, structure, start, trans, emission };
   return { name, model, fit };
 }
@@ -108,7 +115,11 @@ function asObject(v: unknown, where: string, fail: (w: string) => never): Record
 }
 
 function allowKeys(o: Record<string, unknown>, keys: string[], where: string, fail: (w: string) => never): void {
-  for (const k of Object.keys(o)) if (!keys.includes(k)) fail(`${where}: key ${quote(k)} is not allowed (allowed: ${keys.join(', ')})`);
+  try {
+    checkKeys(o, keys, where);
+  } catch (err) {
+    fail((err as Error).message);
+  }
 }
 
 function probability(v: unknown, where: string, fail: (w: string) => never): number {

@@ -1,6 +1,7 @@
-import { dirname, resolve } from 'node:path';
+import { dirname, extname, isAbsolute, relative, resolve } from 'node:path';
 import { InputError, quote } from '../errors.js';
 import { parseJsonDocument } from './parse-json-document.js';
+import { checkKeys } from './json-fields.js';
 import { PIPELINE_FORMAT, type PipelineFile } from './pipeline-file.js';
 
 const TOP_KEYS = ['format', 'floor', 'runs', 'columns', 'model', 'fit', 'compare', 'decode', 'out'];
@@ -14,6 +15,16 @@ export const PIPELINE_COMPARE_KEYS = [
 ];
 const DECODE_KEYS = ['lowConfidence', 'surprisingBits'];
 const OUT_KEYS = ['dir', 'model', 'annotated', 'summary', 'report', 'changes', 'floor'];
+const TABLE_EXTENSIONS = ['.csv', '.arrow', '.feather', '.arrows'];
+/** The extensions the tool writes for each `out` entry (checked before anything is read). */
+const OUT_EXTENSIONS: Record<string, string[]> = {
+  model: ['.json'],
+  floor: ['.json'],
+  annotated: TABLE_EXTENSIONS,
+  summary: TABLE_EXTENSIONS,
+  changes: TABLE_EXTENSIONS,
+  report: ['.html', '.htm'],
+};
 
 /**
  * Reads the text of a pipeline file. Unknown keys anywhere are errors (a typo must not be silently
@@ -24,7 +35,7 @@ export function parsePipeline(text: string, source: string): PipelineFile {
   const fail = (what: string): never => {
     throw new InputError(`${source}: ${what}`);
   };
-  const doc = parseJsonDocument(text, source, 'pipeline file');
+  const doc = parseJsonDocument(text, source);
   const root = object(doc, 'the pipeline file', fail);
   if (root.format !== PIPELINE_FORMAT) fail(`"format" must be ${quote(PIPELINE_FORMAT)}, got ${quote(root.format)}`);
   keys(root, TOP_KEYS, 'the pipeline file', fail);
@@ -77,7 +88,16 @@ export function parsePipeline(text: string, source: string): PipelineFile {
     const v = o[k];
     if (v === undefined || v === null) return null;
     if (typeof v !== 'string' || !v) fail(`"out.${k}" must be a file name, got ${quote(v)}`);
-    return resolve(dir, v as string);
+    const path = resolve(dir, v as string);
+    const inside = relative(dir, path);
+    if (isAbsolute(v as string) || inside === '' || inside.startsWith('..') || isAbsolute(inside)) {
+      fail(`"out.${k}" must be a file name inside "out.dir" (no absolute path, no ".." leading out of it), got ${quote(v)}`);
+    }
+    const allowed = OUT_EXTENSIONS[k];
+    if (!allowed.includes(extname(path).toLowerCase())) {
+      fail(`"out.${k}" must end in ${allowed.join(', ')}, got ${quote(v)}`);
+    }
+    return path;
   };
   const out = { dir, model: name('model'), annotated: name('annotated'), summary: name('summary'), report: name('report'), changes: name('changes'), floor: name('floor') };
   if (fit && !out.model) fail('"out.model" must name the model file to write when the pipeline fits');
@@ -88,7 +108,6 @@ export function parsePipeline(text: string, source: string): PipelineFile {
   if (!compare && (out.changes || out.floor)) fail(`"out.${out.changes ? 'changes' : 'floor'}" is written by a "compare" section, and the pipeline has none`);
   if (model && !fit && !compare && out.model) fail('"out.model" is written by "fit" or "compare", and the pipeline has neither');
   if (!out.annotated && !out.summary && !out.model && !out.report && !out.changes) fail('"out" must name at least one output (model, annotated, summary, report, changes)');
-  if (out.report && !/\.html?$/i.test(out.report)) fail(`"out.report" must be a file name ending in .html, got ${quote(o.report)}`);
   return { source, floor, runs, columns, model, fit, compare, decode, out };
 }
 
@@ -98,7 +117,9 @@ function object(v: unknown, where: string, fail: (w: string) => never): Record<s
 }
 
 function keys(o: Record<string, unknown>, allowed: string[], where: string, fail: (w: string) => never): void {
-  for (const k of Object.keys(o)) {
-    if (!allowed.includes(k)) fail(`${where}: key ${quote(k)} is not allowed (allowed: ${allowed.join(', ')})`);
+  try {
+    checkKeys(o, allowed, where);
+  } catch (err) {
+    fail((err as Error).message);
   }
 }

@@ -67,7 +67,9 @@ export function runsFromArrow(bytes: Uint8Array, source: string, options: ReadRu
   const columns = vectors.map((vector, j) => arrowColumn(names[j], vector));
   const keys = resolveKeyColumns(names, options, source);
   const [runs, steps, readings] = [keys.runCol, keys.stepCol, keys.readingCol].map((name) =>
-    keyValues(vectors[names.indexOf(name)], name === keys.readingCol ? options.surfaces : []),
+    keyValues(vectors[names.indexOf(name)], name === keys.readingCol ? options.surfaces : [], (row) => {
+      throw new InputError(`${source}: column ${quote(name)} at row ${row + 1} must be UTF-8 text, got bytes that are not valid UTF-8`);
+    }),
   );
   return buildRunsTable(
     {
@@ -86,12 +88,34 @@ export function runsFromArrow(bytes: Uint8Array, source: string, options: ReadRu
 
 function decodeArrow(bytes: Uint8Array, source: string): Table {
   if (bytes.length === 0) throw new InputError(`${source}: file must be Arrow IPC (file or stream), got an empty file`);
+  let table: Table;
   try {
-    return tableFromIPC(bytes);
+    table = tableFromIPC(bytes);
   } catch (err) {
     const why = String((err as Error).message).replace(/\s+/g, ' ');
     throw new InputError(`${source}: file must be Arrow IPC (file or stream), got unreadable data (${why})`);
   }
+  // A stream cut at a record-batch boundary reads as a complete table with fewer rows: the
+  // end-of-stream marker (continuation 0xFFFFFFFF then length 0) is required. The pre-0.15 marker (a
+  // bare 4-byte zero length) is not accepted: it cannot be told from a batch body's zero padding.
+  if (!startsWithFileMagic(bytes) && !endsWithEndOfStream(bytes)) {
+    throw new InputError(
+      `${source}: Arrow stream must end with its end-of-stream marker, got a stream cut short after ${table.batches.length} record batch(es), ${table.numRows} rows (a truncated or still-growing file)`,
+    );
+  }
+  return table;
+}
+
+/** Arrow IPC files start with "ARROW1" (streams start with a message). */
+function startsWithFileMagic(bytes: Uint8Array): boolean {
+  return bytes.length >= 6 && String.fromCharCode(...bytes.subarray(0, 6)) === 'ARROW1';
+}
+
+function endsWithEndOfStream(bytes: Uint8Array): boolean {
+  const n = bytes.length;
+  if (n < 8) return false;
+  const marker = [0xff, 0xff, 0xff, 0xff, 0, 0, 0, 0];
+  return marker.every((b, k) => bytes[n - 8 + k] === b);
 }
 
 function checkNames(names: string[], source: string): void {
@@ -153,15 +177,15 @@ function arrowColumn(name: string, vector: Vector): InputColumn {
  * (`dictionaryValues`) return strings shared between rows. Other types are decoded per call and dropped
  * soon after.
  */
-function keyValues(vector: Vector, known: readonly string[]): (row: number) => unknown {
+function keyValues(vector: Vector, known: readonly string[], invalid: (row: number) => never): (row: number) => unknown {
   const type = vector.type as DataType;
   const halfFloat = DataType.isFloat(type) && type.precision === Precision.HALF;
   if (vector.nullCount === 0 && isNumeric(type) && !halfFloat) {
     const values = vector.toArray() as ArrayLike<unknown>;
     return (row) => values[row];
   }
-  if (DataType.isUtf8(type)) return chunked(vector, (data) => utf8Values(data, known));
-  if (DataType.isDictionary(type) && isText(type.dictionary)) return chunked(vector, dictionaryValues);
+  if (DataType.isUtf8(type)) return chunked(vector, (data, first) => utf8Values(data, known, (index) => invalid(first + index)));
+  if (DataType.isDictionary(type) && isText(type.dictionary)) return chunked(vector, (data, first) => dictionaryValues(data, (index) => invalid(first + index)));
   return (row) => toPlain(vector.get(row));
 }
 
@@ -169,7 +193,7 @@ function keyValues(vector: Vector, known: readonly string[]): (row: number) => u
  * Reads a vector chunk by chunk (record batch by record batch) with a reader made per chunk; rows are
  * expected in order, and a row before the current chunk starts over from the first chunk.
  */
-function chunked(vector: Vector, reader: (data: Data) => (index: number) => unknown): (row: number) => unknown {
+function chunked(vector: Vector, reader: (data: Data, first: number) => (index: number) => unknown): (row: number) => unknown {
   const chunks = vector.data;
   let k = -1;
   let first = 0;
@@ -185,7 +209,7 @@ function chunked(vector: Vector, reader: (data: Data) => (index: number) => unkn
       first += length;
       k++;
       length = chunks[k].length;
-      read = reader(chunks[k]);
+      read = reader(chunks[k], first);
     }
     return read(row - first);
   };
@@ -196,9 +220,10 @@ function chunked(vector: Vector, reader: (data: Data) => (index: number) => unkn
  * run's id is decoded once per run), one equal to the UTF-8 bytes of a `known` string returns that
  * string; only other values are decoded (as `Vector.get` decodes them).
  */
-function utf8Values(data: Data, known: readonly string[]): (index: number) => string | null {
+function utf8Values(data: Data, known: readonly string[], invalid: (index: number) => never): (index: number) => string | null {
   const encoder = new TextEncoder();
-  const decoder = new TextDecoder();
+  // Strict: a bad byte in a run id or reading is an error naming the row, never a silent U+FFFD.
+  const decoder = new TextDecoder('utf-8', { fatal: true, ignoreBOM: true });
   const knownBytes = known.map((value) => encoder.encode(value));
   const offsets = data.valueOffsets as Int32Array;
   const bytes = data.values as Uint8Array;
@@ -218,7 +243,14 @@ function utf8Values(data: Data, known: readonly string[]): (index: number) => st
     const y = offsets[index + 1];
     if (lastStart < 0 || y - x !== lastEnd - lastStart || !same(x, y, bytes, lastStart)) {
       const k = knownBytes.findIndex((b) => b.length === y - x && same(x, y, b, 0));
-      last = k >= 0 ? known[k] : decoder.decode(bytes.subarray(x, y));
+      if (k >= 0) last = known[k];
+      else {
+        try {
+          last = decoder.decode(bytes.subarray(x, y));
+        } catch {
+          invalid(index);
+        }
+      }
     }
     lastStart = x;
     lastEnd = y;
@@ -227,8 +259,33 @@ function utf8Values(data: Data, known: readonly string[]): (index: number) => st
 }
 
 /** One dictionary-encoded chunk's values: the dictionary is decoded once, each row reads its key. */
-function dictionaryValues(data: Data): (index: number) => string | null {
+function dictionaryValues(data: Data, invalid: (index: number) => never): (index: number) => string | null {
   const dictionary = data.dictionary ? (Array.from(data.dictionary.toArray() as ArrayLike<unknown>, toPlain) as Array<string | null>) : [];
+  // The dictionary's text is checked as strict UTF-8 once; a row using a damaged entry is named.
+  const damaged = new Set<number>();
+  if (data.dictionary) {
+    const strict = new TextDecoder('utf-8', { fatal: true, ignoreBOM: true });
+    let base = 0;
+    for (const chunk of data.dictionary.data) {
+      const offsets = chunk.valueOffsets as Int32Array | undefined;
+      const bytes = chunk.values as Uint8Array | undefined;
+      if (offsets && bytes instanceof Uint8Array) {
+        for (let i = 0; i < chunk.length; i++) {
+          try {
+            strict.decode(bytes.subarray(offsets[i], offsets[i + 1]));
+          } catch {
+            damaged.add(base + i);
+          }
+        }
+      }
+      base += chunk.length;
+    }
+  }
   const keys = data.values as ArrayLike<number | bigint>;
-  return (index) => (data.getValid(index) ? (dictionary[Number(keys[index])] ?? null) : null);
+  return (index) => {
+    if (!data.getValid(index)) return null;
+    const key = Number(keys[index]);
+    if (damaged.size && damaged.has(key)) invalid(index);
+    return dictionary[key] ?? null;
+  };
 }

@@ -1,6 +1,6 @@
 import { decodeUtf8 } from './decode-utf8.js';
 import { runsFromArrow, runsFromCsv } from './parse-runs.js';
-import { readInputFile } from './read-input-file.js';
+import { MAX_CSV_BYTES, readInputFile } from './read-input-file.js';
 import type { ReadRunsOptions, RunsTable } from './runs-table.js';
 import { tableFormatOf } from './table-format-of.js';
 
@@ -19,5 +19,5 @@ export async function readRuns(path: string, options: ReadRunsOptions): Promise<
  * the text is parsed (a large CSV's bytes and text are not both held).
  */
 async function readText(path: string): Promise<string> {
-  return decodeUtf8(await readInputFile(path), path);
+  return decodeUtf8(await readInputFile(path, MAX_CSV_BYTES), path);
 }

@@ -1,7 +1,26 @@
 import { randomBytes } from 'node:crypto';
+import { unlinkSync } from 'node:fs';
 import { mkdir, open, readdir, rename, rm, type FileHandle } from 'node:fs/promises';
 import { basename, dirname, join } from 'node:path';
 import { InputError, WorkError } from '../errors.js';
+
+/** Temporary files being written by this process right now (removed by `removeTemporaryFiles` on exit). */
+const live = new Set<string>();
+
+/**
+ * Removes, synchronously, every temporary file this process is writing: called by the CLI when it
+ * exits on a signal (SIGINT, SIGTERM), a closed pipe or any other way, so no `*.tmp-*` file is left.
+ */
+export function removeTemporaryFiles(): void {
+  for (const temp of live) {
+    try {
+      unlinkSync(temp);
+    } catch {
+      // Already renamed into place or removed.
+    }
+  }
+  live.clear();
+}
 
 /** What `writeFileAtomic` writes: text (as UTF-8), bytes, or a sequence of either written in order. */
 export type FileData = string | Uint8Array | Iterable<string | Uint8Array>;
@@ -24,6 +43,7 @@ export async function writeFileAtomic(path: string, data: FileData): Promise<voi
   await removeStaleTemporaries(folder, basename(path));
   const temp = join(folder, `${basename(path)}.tmp-${process.pid}-${randomBytes(6).toString('hex')}`);
   let handle: FileHandle | undefined;
+  live.add(temp);
   try {
     handle = await open(temp, 'wx');
     const chunks = typeof data === 'string' || data instanceof Uint8Array ? [data] : data;
@@ -32,9 +52,11 @@ export async function writeFileAtomic(path: string, data: FileData): Promise<voi
     await handle.close();
     handle = undefined;
     await rename(temp, path);
+    live.delete(temp);
   } catch (err) {
     await handle?.close().catch(() => undefined);
     await rm(temp, { force: true }).catch(() => undefined);
+    live.delete(temp);
     throw isFileSystemError(err) ? fileError(path, err, 'file') : err;
   }
   await syncFolder(folder);

@@ -6,6 +6,8 @@ import { formatModel } from '../io/format-model.js';
 import { formatFloor } from '../io/format-floor.js';
 import { writeFileAtomic } from '../io/write-atomic.js';
 import { writeTable } from '../io/write-table.js';
+import { planOutputs } from '../io/plan-outputs.js';
+import { tableFormatOf } from '../io/table-format-of.js';
 import type { OutputTable } from '../io/output-table.js';
 import type { ModelFile } from '../io/model-file.js';
 import { checkModelFloor } from '../model/check-model-floor.js';
@@ -89,6 +91,12 @@ export interface CompareProgress extends RefitSearchProgress {
 }
 
 export async function compareFromFiles(config: CompareConfig, onProgress?: (p: CompareProgress) => void): Promise<CompareOutcome> {
+  if (config.out) tableFormatOf(config.out);
+  await planOutputs(
+    'compare',
+    [{ path: config.model, what: '--model' }, { path: config.floor, what: '--floor' }, ...config.runs.map((r) => ({ path: r, what: '--runs' }))],
+    [{ path: config.out, what: '--out' }, { path: config.refit, what: '--refit' }, { path: config.writeFloor, what: '--write-floor' }],
+  );
   const floor = await readFloor(config.floor);
   const old = await readModel(config.model);
   checkModelFloor(old.model, config.model, floor, config.floor);

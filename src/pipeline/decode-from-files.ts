@@ -2,6 +2,8 @@ import { InputError, quote } from '../errors.js';
 import { readModel } from '../io/read-model.js';
 import { readFloor } from '../io/read-floor.js';
 import { writeTable } from '../io/write-table.js';
+import { planOutputs } from '../io/plan-outputs.js';
+import { tableFormatOf } from '../io/table-format-of.js';
 import type { ModelFile } from '../io/model-file.js';
 import { checkModelFloor } from '../model/check-model-floor.js';
 import { withFloorZones } from '../model/with-floor-zones.js';
@@ -31,6 +33,14 @@ export interface DecodeOutcome {
 
 /** `decode`: reads a model and runs, decodes every run, writes the annotated table and run summary atomically. */
 export async function decodeFromFiles(config: DecodeConfig, preloaded?: ModelFile, skipAnnotated = false): Promise<DecodeOutcome> {
+  // Every output's format and location is checked before anything is read.
+  if (!skipAnnotated) tableFormatOf(config.out);
+  if (config.summary) tableFormatOf(config.summary);
+  await planOutputs(
+    'decode',
+    [{ path: config.model, what: '--model' }, { path: config.floor, what: '--floor' }, ...config.runs.map((r) => ({ path: r, what: '--runs' }))],
+    [{ path: skipAnnotated ? null : config.out, what: '--out' }, { path: config.summary, what: '--summary' }],
+  );
   let file = preloaded ?? (await readModel(config.model));
   if (config.floor) {
     const floor = await readFloor(config.floor);

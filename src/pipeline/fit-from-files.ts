@@ -13,6 +13,7 @@ import { loadRuns } from './load-runs.js';
 import { heldOutFlags } from './held-out-flags.js';
 import { CheckpointDir } from '../io/checkpoint-dir.js';
 import { wasmFallbackWarning } from './wasm-fallback-warning.js';
+import { planOutputs } from '../io/plan-outputs.js';
 
 export interface FitConfig {
   floor: string;
@@ -36,6 +37,12 @@ export interface FitOutcome {
 
 /** `fit`: reads the floor and runs (and a warm-start model), calibrates, writes the model file atomically. */
 export async function fitFromFiles(config: FitConfig, onProgress?: (p: FitProgress) => void): Promise<FitOutcome> {
+  const checkpoint = config.checkpoint ? new CheckpointDir(config.checkpoint) : undefined;
+  await planOutputs(
+    'fit',
+    [{ path: config.floor, what: '--floor' }, ...config.runs.map((r) => ({ path: r, what: '--runs' })), { path: config.from, what: '--from' }],
+    [{ path: config.out, what: '--out' }, { path: checkpoint?.where, what: '--checkpoint' }],
+  );
   const floor = await readFloor(config.floor);
   const loaded = await loadRuns(config.runs, { surfaces: floor.surfaces, ...config.keys });
   const options = { ...config.options };
@@ -59,7 +66,7 @@ export async function fitFromFiles(config: FitConfig, onProgress?: (p: FitProgre
     options,
     config.workers,
     onProgress,
-    { checkpoint: config.checkpoint ? new CheckpointDir(config.checkpoint) : undefined, signal: config.signal },
+    { checkpoint, signal: config.signal, configKey: JSON.stringify(config.keys) },
   );
   const file: ModelFile = { name: floor.name, model: withFloorZones(result.model, floor), fit: result.record };
   await writeFileAtomic(config.out, formatModel(file));

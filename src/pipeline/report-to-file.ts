@@ -5,6 +5,7 @@ import { readRuns } from '../io/read-runs.js';
 import { readInputFile } from '../io/read-input-file.js';
 import { tableFormatOf } from '../io/table-format-of.js';
 import { writeFileAtomic } from '../io/write-atomic.js';
+import { planOutputs } from '../io/plan-outputs.js';
 import type { ModelFile } from '../io/model-file.js';
 import { InputError, quote } from '../errors.js';
 import { checkModelFloor } from '../model/check-model-floor.js';
@@ -50,6 +51,17 @@ export interface ReportOutcome {
  */
 export async function reportToFile(config: ReportConfig, preloaded?: ModelFile): Promise<ReportOutcome> {
   if (!/\.html?$/i.test(config.out)) throw new InputError(`${config.out}: the report file name must end in .html, got ${quote(basename(config.out))}`);
+  await planOutputs(
+    'report',
+    [
+      { path: config.model, what: '--model' },
+      { path: config.floor, what: '--floor' },
+      { path: config.annotated, what: '--annotated' },
+      { path: config.summary, what: '--summary' },
+      { path: config.changes, what: '--changes' },
+    ],
+    [{ path: config.out, what: '--out' }],
+  );
   let modelFile = preloaded ?? (await readModel(config.model));
   const floor = config.floor ? await readFloor(config.floor) : null;
   if (floor && config.floor) {

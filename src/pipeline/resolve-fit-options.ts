@@ -25,7 +25,7 @@ export function resolveFitOptions(
   if (!['auto', 'fixed', 'tied', 'per-cell', 'learned'].includes(transitions)) fail('transitions', 'one of auto, fixed, tied, per-cell, learned');
   // Read (and checked) whatever the mode; recorded only by the modes that use it, so fixed and tied
   // model files stay as they were before the option existed.
-  const transitionPriorStrength = num('transitionPriorStrength', d.transitionPriorStrength ?? DEFAULT_TRANSITION_PRIOR_STRENGTH, (x) => x >= 0, 'a number ≥ 0');
+  const transitionPriorStrength = num('transitionPriorStrength', d.transitionPriorStrength ?? DEFAULT_TRANSITION_PRIOR_STRENGTH, (x) => x >= 0 && x <= 1e9, 'a number from 0 to 1e9');
   const holdoutCol = raw.holdoutCol === undefined || raw.holdoutCol === null ? null : String(raw.holdoutCol);
   if (holdoutCol !== null && holdoutCol.trim() === '') fail('holdoutCol', 'a column name');
   let finalPass = d.finalPass;
@@ -42,7 +42,8 @@ export function resolveFitOptions(
     transitions,
     dwell: num('dwell', d.dwell, (x) => x > 0 && x < 1, 'a probability strictly between 0 and 1'),
     hit: num('hit', d.hit, (x) => x > 0 && x <= 1, 'a probability in (0, 1]'),
-    priorStrength: num('priorStrength', d.priorStrength, (x) => x >= 0, 'a number ≥ 0'),
+    // Above 1e9 pseudo-readings per cell the objective's prior term overflows; no data set needs more.
+    priorStrength: num('priorStrength', d.priorStrength, (x) => x >= 0 && x <= 1e9, 'a number from 0 to 1e9'),
     ...(transitions === 'fixed' || transitions === 'tied' ? {} : { transitionPriorStrength }),
     maxIter: int('maxIter', d.maxIter, 0, 1_000_000),
     tol: num('tol', d.tol, (x) => x >= 0, 'a number ≥ 0'),

@@ -1,6 +1,7 @@
 import { readPipeline } from '../io/read-pipeline.js';
 import { readModel } from '../io/read-model.js';
 import { checkReadable } from '../io/check-readable.js';
+import { planOutputs } from '../io/plan-outputs.js';
 import type { FitProgress } from '../fit/fit-model.js';
 import { DEFAULT_THRESHOLDS } from '../decode/decode-thresholds.js';
 import { DEFAULT_KEY_COLUMNS, type KeyColumns } from './key-columns.js';
@@ -29,7 +30,7 @@ export interface PipelineOutcome {
 export async function runPipeline(
   path: string,
   onProgress?: (p: FitProgress | CompareProgress) => void,
-  overrides: { workers?: number } = {},
+  overrides: { workers?: number; signal?: AbortSignal } = {},
 ): Promise<PipelineOutcome> {
   const p = await readPipeline(path);
   const keys: KeyColumns = {
@@ -50,12 +51,27 @@ export async function runPipeline(
   if (!(thresholds.lowConfidence >= 0 && thresholds.lowConfidence <= 1)) {
     throw new InputError(`${p.source}: "decode.lowConfidence" must be a probability in [0, 1], got ${thresholds.lowConfidence}`);
   }
+  if (!(thresholds.surprisingBits >= 0)) {
+    throw new InputError(`${p.source}: "decode.surprisingBits" must be a number of bits ≥ 0, got ${thresholds.surprisingBits}`);
+  }
+  // No output may replace an input (the pipeline file itself included) or another output.
+  await planOutputs(
+    p.source,
+    [
+      { path: p.source, what: 'the pipeline file' },
+      { path: p.floor, what: '"floor"' },
+      ...p.runs.map((r) => ({ path: r, what: '"runs"' })),
+      { path: p.model, what: '"model"' },
+      { path: fitOpts?.from, what: '"fit.from"' },
+    ],
+    (['model', 'annotated', 'summary', 'report', 'changes', 'floor'] as const).map((k) => ({ path: p.out[k], what: `"out.${k}"` })),
+  );
   const written: string[] = [];
   const warnings: string[] = [];
   let fit: FitOutcome | null = null;
   if (fitOpts) {
     fit = await fitFromFiles(
-      { floor: p.floor, runs: p.runs, out: p.out.model!, from: fitOpts.from, options: fitOpts.options, workers: fitOpts.workers, keys },
+      { floor: p.floor, runs: p.runs, out: p.out.model!, from: fitOpts.from, options: fitOpts.options, workers: fitOpts.workers, keys, signal: overrides.signal },
       onProgress,
     );
     written.push(p.out.model!);

@@ -1,6 +1,8 @@
 import { readFloor } from '../io/read-floor.js';
 import { readModel } from '../io/read-model.js';
 import { writeTable } from '../io/write-table.js';
+import { planOutputs } from '../io/plan-outputs.js';
+import { tableFormatOf } from '../io/table-format-of.js';
 import { buildModel } from '../model/build-model.js';
 import { checkModelFloor } from '../model/check-model-floor.js';
 import { sampleRun } from '../model/sample-run.js';
@@ -37,6 +39,8 @@ export interface SimulateOutcome {
  * inputs and seed give the same table.
  */
 export async function simulateToFile(config: SimulateConfig): Promise<SimulateOutcome> {
+  tableFormatOf(config.out);
+  await planOutputs('simulate', [{ path: config.floor, what: '--floor' }, { path: config.model, what: '--model' }], [{ path: config.out, what: '--out' }]);
   const floor = await readFloor(config.floor);
   let model: HmmModel;
   if (config.model) {

@@ -35,7 +35,7 @@ describe('run PIPELINE.json with a bad pipeline', () => {
   it('an unknown key is one clear line, exit 2, and no output is written', () => {
     const file = pipeline('typo.json', { fit: { restarts: 1, maxIterations: 2 } });
     const r = runCli(['run', file]);
-    expectOneLineExit2(r, 'typo.json', '"maxIterations"', 'not allowed');
+    expectOneLineExit2(r, 'typo.json', '"maxIterations"', 'must be one of');
     expect(existsSync(tmp.path('out-typo.json'))).toBe(false);
   });
 

@@ -91,6 +91,6 @@ describe('underfoot report (built command)', () => {
     writeFileSync(p('pipe-bad.json'), JSON.stringify({ format: 'underfoot-pipeline/1', floor: 'floor.json', runs: ['raw-runs.csv'], model: 'model.json', out: { dir: 'x', report: 'report.txt' } }));
     const bad = runCli(['run', p('pipe-bad.json')]);
     expect(bad.code).toBe(2);
-    expect(bad.stderr).toContain('"out.report" must be a file name ending in .html, got "report.txt"');
+    expect(bad.stderr).toContain('"out.report" must end in .html, .htm, got "report.txt"');
   });
 });

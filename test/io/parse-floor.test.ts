@@ -158,11 +158,11 @@ describe('parseFloor(text, source) errors (one per case in the contract)', () =>
   });
 
   it('parseFloor(text) rejects a missing name', () => {
-    expectDocError((doc) => delete doc.name, 'depot/floor.json: "name" must be a string, got nothing');
+    expectDocError((doc) => delete doc.name, 'depot/floor.json: "name" must be a string of well-formed text, got nothing');
   });
 
   it('parseFloor(text) rejects a name that is not a string', () => {
-    expectDocError((doc) => (doc.name = 7), 'depot/floor.json: "name" must be a string, got 7');
+    expectDocError((doc) => (doc.name = 7), 'depot/floor.json: "name" must be a string of well-formed text, got 7');
   });
 
   it('parseFloor(text) rejects missing surfaces', () => {
@@ -246,20 +246,20 @@ describe('parseFloor(text, source) errors (one per case in the contract)', () =>
   it('parseFloor(text) rejects a cell without x', () => {
     expectDocError(
       (doc) => delete cells(doc)[0].x,
-      'depot/floor.json: cell "A1" (cells[0]) "x" must be a finite number (metres), got nothing',
+      'depot/floor.json: cell "A1" (cells[0]) "x" must be a finite number of metres within ±1000000000, got nothing',
     );
   });
 
   it('parseFloor(text) rejects a y that is text', () => {
     expectDocError(
       (doc) => (cells(doc)[0].y = '0.5'),
-      'depot/floor.json: cell "A1" (cells[0]) "y" must be a finite number (metres), got "0.5"',
+      'depot/floor.json: cell "A1" (cells[0]) "y" must be a finite number of metres within ±1000000000, got "0.5"',
     );
   });
 
   it('parseFloor(text) rejects an x too large to be finite', () => {
     const text = JSON.stringify(floorDoc()).replace('"x":1.5', '"x":1e999');
-    expectFloorError(text, 'depot/floor.json: cell "A2" (cells[1]) "x" must be a finite number (metres), got Infinity');
+    expectFloorError(text, 'depot/floor.json: cell "A2" (cells[1]) "x" must be a finite number of metres within ±1000000000, got Infinity');
   });
 
   it('parseFloor(text) rejects a level that is not an integer', () => {

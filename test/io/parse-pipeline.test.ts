@@ -21,7 +21,7 @@ describe('parsePipeline: the compare section (re-fit after flooring changes)', (
     expect(p.out.floor).toBe('/data/p/out/floor-after.json');
   });
   const bad: Array<[string, Record<string, unknown>, string]> = [
-    ['an unknown compare key', { ...base, compare: { fdrr: 0.1 } }, '"compare": key "fdrr" is not allowed'],
+    ['an unknown compare key', { ...base, compare: { fdrr: 0.1 } }, '"compare" key must be one of "fdr", "minReadings", "nullDraws", "robust", "swapRounds", "seed", "transitions", "priorStrength", "maxIter", "tol", "workers", got "fdrr"'],
     ['compare without the old model', { ...base, model: undefined }, '"compare" must come with "model"'],
     ['compare together with fit', { ...base, fit: { restarts: 1 } }, 'must not both be given'],
     ['compare without out.changes', { ...base, out: { dir: 'out', model: 'refit.json' } }, '"out.changes" must name the changes table'],
