@@ -101,8 +101,8 @@ function parseCells(value: unknown, surfaces: string[], source: string): FloorCe
     }
     const start = raw.start === undefined ? false : raw.start;
     if (typeof start !== 'boolean') throw new InputError(`${where} "start" must be true or false, got ${got(raw.start)}`);
-    if (raw.zone !== undefined && (typeof raw.zone !== 'string' || raw.zone === '')) {
-      throw new InputError(`${where} "zone" must be a non-empty string, got ${got(raw.zone)}`);
+    if (raw.zone !== undefined && (typeof raw.zone !== 'string' || raw.zone === '' || !isWellFormedText(raw.zone))) {
+      throw new InputError(`${where} "zone" must be a non-empty string of well-formed text, got ${got(raw.zone)}`);
     }
     const cell: FloorCell = { id, surface: raw.surface, x: raw.x as number, y: raw.y as number, level, start };
     if (raw.zone !== undefined) cell.zone = raw.zone as string;
@@ -114,7 +114,7 @@ function parseCells(value: unknown, surfaces: string[], source: string): FloorCe
 function parseGeoreference(value: unknown, source: string): Georeference {
   const where = `${source}: "georeference"`;
   if (!isObject(value)) throw new InputError(`${where} must be an object with "lat", "lon" and "bearing", got ${got(value)}`);
-  checkKeys(value, GEOREFERENCE_KEYS, `${where} key`);
+  checkKeys(value, GEOREFERENCE_KEYS, where);
   const ranges: Array<[keyof Georeference, string, (v: number) => boolean]> = [
     ['lat', 'a number of degrees in [-90, 90]', (v) => v >= -90 && v <= 90],
     ['lon', 'a number of degrees in [-180, 180]', (v) => v >= -180 && v <= 180],

@@ -44,12 +44,18 @@ export function svgConvergenceChart(restarts: LoopRecord[], selected: number, fi
     parts.push(`<path d="${path(h) ?? ''}" stroke="${colour}" stroke-width="${width}" stroke-opacity="${opacity}"${dash}><title>${escapeHtml(tip)}</title></path>`);
   }
   parts.push('</g>');
-  // Direct labels at the right-hand end: the chosen restart and the final pass.
-  for (const l of loops.filter((l) => l.chosen || l.final)) {
-    const h = l.record.history;
-    if (!h.length) continue;
-    const yy = Math.min(H - M.bottom, Math.max(M.top, y(h[h.length - 1]))) + (l.final ? 12 : -4);
-    parts.push(`<text x="${W - M.right + 6}" y="${yy.toFixed(1)}" font-size="11" fill="${l.final ? INK : INK}"${l.chosen ? ' font-weight="600"' : ''}>${escapeHtml(l.chosen ? `chosen (${l.label})` : l.label)}</text>`);
+  // Direct labels at the right-hand end: the chosen restart and the final pass, kept at least one line
+  // apart (they often end at the same objective) and clear of the "other restarts" key at the bottom.
+  const LINE = 14;
+  const labels = loops
+    .filter((l) => (l.chosen || l.final) && l.record.history.length > 0)
+    .map((l) => ({ l, y: Math.min(H - M.bottom, Math.max(M.top, y(l.record.history[l.record.history.length - 1]))) + (l.final ? 12 : -4) }))
+    .sort((a, b) => a.y - b.y);
+  const lowest = H - M.bottom - 4 - LINE;
+  for (let k = 1; k < labels.length; k++) labels[k].y = Math.max(labels[k].y, labels[k - 1].y + LINE);
+  for (let k = labels.length - 1; k >= 0; k--) labels[k].y = Math.min(labels[k].y, k === labels.length - 1 ? lowest : labels[k + 1].y - LINE);
+  for (const { l, y: yy } of labels) {
+    parts.push(`<text x="${W - M.right + 6}" y="${Math.max(M.top + 8, yy).toFixed(1)}" font-size="11" fill="${INK}"${l.chosen ? ' font-weight="600"' : ''}>${escapeHtml(l.chosen ? `chosen (${l.label})` : l.label)}</text>`);
   }
   if (restarts.length > 1) {
     parts.push(`<line x1="${W - M.right + 6}" x2="${W - M.right + 22}" y1="${H - M.bottom - 4}" y2="${H - M.bottom - 4}" stroke="${SURFACE_COLOURS[0]}" stroke-opacity="0.55" stroke-width="1.3"/>`);

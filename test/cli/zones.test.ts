@@ -173,7 +173,7 @@ describe('zones through the built command', () => {
     writeFileSync(p('bad-model.json'), text);
     const r = runCli(['decode', '--model', p('bad-model.json'), '--runs', p('runs.csv'), '--out', p('bad-model-annotated.csv')]);
     expect(r.code).toBe(2);
-    expect(r.stderr.trim().split('\n')).toEqual([`underfoot: ${p('bad-model.json')}: cell "g-3-1": "zone" must be a non-empty string, got 7`]);
+    expect(r.stderr.trim().split('\n')).toEqual([`underfoot: ${p('bad-model.json')}: cell "g-3-1": "zone" must be a non-empty string of well-formed text, got 7`]);
     expect(existsSync(p('bad-model-annotated.csv'))).toBe(false);
   });
 
@@ -205,8 +205,8 @@ describe('zones through the built command', () => {
 
 describe('bad zones and georeferences', () => {
   const cases: Array<[string, (f: Record<string, unknown>) => void, string]> = [
-    ['a zone that is not a string', (f) => ((f.cells as Array<Record<string, unknown>>)[4].zone = 3), 'cell "g-4-0" (cells[4]) "zone" must be a non-empty string, got 3'],
-    ['an empty zone', (f) => ((f.cells as Array<Record<string, unknown>>)[0].zone = ''), 'cell "g-0-0" (cells[0]) "zone" must be a non-empty string, got ""'],
+    ['a zone that is not a string', (f) => ((f.cells as Array<Record<string, unknown>>)[4].zone = 3), 'cell "g-4-0" (cells[4]) "zone" must be a non-empty string of well-formed text, got 3'],
+    ['an empty zone', (f) => ((f.cells as Array<Record<string, unknown>>)[0].zone = ''), 'cell "g-0-0" (cells[0]) "zone" must be a non-empty string of well-formed text, got ""'],
     ['a latitude out of range', (f) => (f.georeference = { lat: 91, lon: 0, bearing: 0 }), '"georeference" "lat" must be a number of degrees in [-90, 90], got 91'],
     ['a bearing of 360', (f) => (f.georeference = { lat: 0, lon: 0, bearing: 360 }), '"georeference" "bearing" must be a number of degrees in [0, 360) (the x axis, clockwise from north), got 360'],
     ['a longitude as text', (f) => (f.georeference = { lat: 0, lon: '7', bearing: 0 }), '"georeference" "lon" must be a number of degrees in [-180, 180], got "7"'],

@@ -18,7 +18,7 @@ describe('fit options: transition modes and the transition prior', () => {
 
   it('rejects an unknown mode and a negative strength with one line naming the flag', () => {
     expect(() => resolveFitOptions({ transitions: 'smooth' }, 'fit')).toThrow(new InputError('fit: --transitions must be one of auto, fixed, tied, per-cell, learned, got "smooth"'));
-    expect(() => resolveFitOptions({ transitions: 'tied', transitionPriorStrength: '-2' }, 'fit')).toThrow(/--transition-prior-strength must be a number ≥ 0, got "-2"/);
+    expect(() => resolveFitOptions({ transitions: 'tied', transitionPriorStrength: '-2' }, 'fit')).toThrow(/--transition-prior-strength must be a number from 0 to 1e9, got "-2"/);
   });
 
   it('compare keeps one mode: tied by default, auto and per-cell refused', () => {
