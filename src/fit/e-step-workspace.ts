@@ -77,6 +77,14 @@ export class EStepWorkspace {
     return this;
   }
 
+  private moveScratch = new Float64Array(0);
+
+  /** Scratch of the movement kernels (2 · nCells numbers). */
+  moveWork(nCells: number): Float64Array {
+    if (this.moveScratch.length < 2 * nCells) this.moveScratch = new Float64Array(2 * nCells);
+    return this.moveScratch;
+  }
+
   /** Makes sure `checkpoints` holds `size` numbers; returns it. */
   ensureCheckpoints(size: number): Float64Array {
     if (this.checkpoints.length < size) this.checkpoints = new Float64Array(size);
