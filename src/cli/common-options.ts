@@ -8,13 +8,18 @@ export function addKeyColumnOptions(cmd: Command): Command {
     .option('--run-col <name>', 'column holding the run id', DEFAULT_KEY_COLUMNS.runCol)
     .option('--step-col <name>', 'column holding the step number', DEFAULT_KEY_COLUMNS.stepCol)
     .option('--reading-col <name>', 'column holding the reading', DEFAULT_KEY_COLUMNS.readingCol)
-    .option('--unknown-readings <mode>', 'a reading not in the floor\'s surfaces: "error" or "dropout"', 'error');
+    .option('--unknown-readings <mode>', 'a reading not in the floor\'s surfaces: "error" or "dropout"', 'error')
+    .option('--moved-col <name>', 'column holding the metres moved since the previous row (odometry; used when present)', undefined)
+    .option('--heading-col <name>', 'column holding the heading of travel in degrees (odometry; used when present)', undefined);
 }
 
 export function keyColumnsFrom(opts: Record<string, unknown>, where: string): KeyColumns {
   const mode = opts.unknownReadings;
   if (mode !== 'error' && mode !== 'dropout') throw new InputError(`${where}: --unknown-readings must be "error" or "dropout", got ${quote(mode)}`);
-  return { runCol: String(opts.runCol), stepCol: String(opts.stepCol), readingCol: String(opts.readingCol), unknownReadings: mode };
+  const keys: KeyColumns = { runCol: String(opts.runCol), stepCol: String(opts.stepCol), readingCol: String(opts.readingCol), unknownReadings: mode };
+  if (typeof opts.movedCol === 'string') keys.movedCol = opts.movedCol;
+  if (typeof opts.headingCol === 'string') keys.headingCol = opts.headingCol;
+  return keys;
 }
 
 /** Adds --quiet, --json and --debug. */

@@ -5,7 +5,8 @@ import type { TransitionMode } from '../model/hmm-model.js';
 import { addRunCounts } from './add-run-counts.js';
 import { accumulateLanes } from './accumulate-lanes.js';
 import type { EStepWorkspace } from './e-step-workspace.js';
-import type { PackedRuns } from './packed-runs.js';
+import { moveStepsOf, type PackedRuns } from './packed-runs.js';
+import { addMoveRunCounts } from './add-move-run-counts.js';
 import { laneGroups } from './lane-groups.js';
 
 export interface BlockCounts {
@@ -32,9 +33,23 @@ export function accumulateBlock(
   ws: EStepWorkspace,
   mode: TransitionMode = 'learned',
 ): BlockCounts {
-  const counts = emptyCounts(chain.nCells, chain.nnz, chain.nReadings);
+  const withMove = chain.move !== undefined && packed.dBin !== undefined;
+  const counts = emptyCounts(chain.nCells, chain.nnz, chain.nReadings, withMove ? chain.outPtr[chain.nCells] : -1);
   const obsOf = (r: number): Int32Array => packed.obs.subarray(packed.offsets[r], packed.offsets[r + 1]);
   const logs = new Float64Array(runs.length);
+  if (withMove) {
+    // Runs with odometry: one run at a time through the movement kernels (per-step transitions).
+    for (let b = 0; b < runs.length; b++) {
+      logs[b] = addMoveRunCounts(chain, obsOf(runs[b]), moveStepsOf(packed, runs[b]), counts, counts.move!, ws);
+      if (logs[b] === -Infinity) return { counts, impossibleRun: runs[b] };
+    }
+    for (let b = 0; b < runs.length; b++) {
+      counts.logLik += logs[b];
+      counts.nReadings += countReadings(obsOf(runs[b]));
+      counts.nRuns += 1;
+    }
+    return { counts, impossibleRun: -1 };
+  }
   const laneLogs = new Float64Array(LANES);
   const perLink = mode === 'learned';
   for (const members of laneGroups(runs, packed.offsets)) {

@@ -1,5 +1,6 @@
 import type { HmmModel, TransitionMode } from '../model/hmm-model.js';
 import type { ExpectedCountsTable } from '../model/expected-counts-table.js';
+import { maximizeMovement } from '../model/maximize-movement.js';
 import { maximizeModel } from '../model/maximize-model.js';
 import { emissionLogPrior } from '../model/emission-log-prior.js';
 import { WorkError } from '../errors.js';
@@ -96,7 +97,10 @@ export async function runEm(
     if (iterations >= options.maxIter) {
       return { model, iterations, stopReason: 'max-iter', history, logLikPerReading: counts.logLik / Math.max(1, counts.nReadings), counts };
     }
-    model = maximizeModel(model, counts, { mode: options.mode, priorStrength: options.priorStrength, prior: options.prior });
+    const next = maximizeModel(model, counts, { mode: options.mode, priorStrength: options.priorStrength, prior: options.prior });
+    // Movement parameters: learned in `tied` mode (a generalised EM step), held in `fixed` mode.
+    if (model.movement && counts.move && options.mode === 'tied') next.movement = maximizeMovement(next, model.movement, counts.move);
+    model = next;
     iterations++;
     if (afterStep) await afterStep({ model, iterations, history: history.slice() });
     if (signal?.aborted) throw new FitInterrupted();

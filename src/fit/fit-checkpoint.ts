@@ -1,3 +1,4 @@
+import type { MovementParams } from '../model/hmm-model.js';
 import type { LoopRecord } from './fit-record.js';
 
 /** The numbers of a model that change during a fit (structure and names come from the floor). */
@@ -5,6 +6,8 @@ export interface CheckpointParams {
   start: number[];
   trans: number[];
   emission: number[];
+  /** Movement parameters, when the fit uses odometry. */
+  movement?: MovementParams;
 }
 
 /** Where an interrupted loop stood after its last M-step. */

@@ -1,3 +1,5 @@
+import type { MoveSteps } from '../kernels/move-chain.js';
+import { DEFAULT_MOVEMENT } from '../model/default-movement.js';
 import type { FloorGraph } from '../model/floor-graph.js';
 import type { HmmModel } from '../model/hmm-model.js';
 import { buildModel } from '../model/build-model.js';
@@ -24,7 +26,13 @@ import type { ExpectedCountsTable } from '../model/expected-counts-table.js';
 
 export interface FitInput {
   floor: FloorGraph;
-  runs: ReadonlyArray<{ id: string; obs: Int32Array }>;
+  runs: ReadonlyArray<{ id: string; obs: Int32Array; moves?: MoveSteps }>;
+  /**
+   * The runs carry odometry (`moves`): with `tied` and `fixed` transitions the model gets movement
+   * parameters — the warm start's, or `DEFAULT_MOVEMENT` — learned (`tied`) or held (`fixed`); other
+   * modes ignore the odometry (the caller warns). Without it the fit is exactly as before.
+   */
+  movement?: boolean;
   /** Per run, true when a `--holdout-col` marks it `held-out` (overrides the random fraction). */
   heldOutFlags?: boolean[];
   floorDigest: string;
@@ -94,8 +102,11 @@ export async function fitModel(
   if (runs.length === 0) throw new WorkError('fit: there must be at least one run, got none');
   const split = splitRuns(runs.length, o.holdout, o.seed, input.heldOutFlags);
   if (split.fit.length === 0) throw new WorkError('fit: at least one run must be left to fit on, got every run held out');
-  const packed = packRuns(runs, workers > 1);
-  const base = input.warmStart ? intoFamily(input.warmStart, o.transitions, o.dwell) : buildModel(floor, { dwell: o.dwell, hit: o.hit });
+  const useMovement = input.movement === true && (o.transitions === 'tied' || o.transitions === 'fixed');
+  const packed = packRuns(useMovement ? runs : runs.map(({ id, obs }) => ({ id, obs })), workers > 1);
+  const plainBase = input.warmStart ? intoFamily(input.warmStart, o.transitions, o.dwell) : buildModel(floor, { dwell: o.dwell, hit: o.hit });
+  const { movement: warmMovement, ...withoutMovement } = plainBase;
+  const base: HmmModel = useMovement ? { ...withoutMovement, movement: { ...(input.warmStart?.movement ?? warmMovement ?? DEFAULT_MOVEMENT) } } : withoutMovement;
   const surfaceIndex = new Map(floor.surfaces.map((s, r) => [s, r] as const));
   const prior = input.prior ?? surveyPrior(Int32Array.from(floor.cells, (c) => surfaceIndex.get(c.surface) ?? 0), floor.surfaces.length, o.hit);
   const loopOptions: EmLoopOptions = { mode: o.transitions, priorStrength: o.priorStrength, prior, maxIter: o.maxIter, tol: o.tol };
@@ -203,11 +214,15 @@ function checkpointKey(input: FitInput, o: FitOptions): string {
 }
 
 function paramsOf(model: HmmModel): CheckpointParams {
-  return { start: Array.from(model.start), trans: Array.from(model.trans), emission: Array.from(model.emission) };
+  const params: CheckpointParams = { start: Array.from(model.start), trans: Array.from(model.trans), emission: Array.from(model.emission) };
+  if (model.movement) params.movement = { ...model.movement };
+  return params;
 }
 
 function withParams(model: HmmModel, p: CheckpointParams): HmmModel {
-  return { ...model, start: Float64Array.from(p.start), trans: Float64Array.from(p.trans), emission: Float64Array.from(p.emission) };
+  const out: HmmModel = { ...model, start: Float64Array.from(p.start), trans: Float64Array.from(p.trans), emission: Float64Array.from(p.emission) };
+  if (p.movement) out.movement = { ...p.movement };
+  return out;
 }
 
 /** Expected readings per cell (rows) and surface (columns), from counts over all runs under `model`. */

@@ -1,3 +1,5 @@
+import { decodeMoveRun } from '../decode/decode-move-run.js';
+import type { MoveSteps } from '../kernels/move-chain.js';
 import type { HmmModel } from '../model/hmm-model.js';
 import { chainFromModel } from '../model/chain-from-model.js';
 import { logChain } from '../decode/log-chain.js';
@@ -21,7 +23,14 @@ export interface DecodedTables {
  * Steps that were missing from the input (gaps) are decoded as dropouts but have no input row, so they
  * appear in the summary's counts only.
  */
-export function decodeRuns(model: HmmModel, tables: RunsTable[], th: DecodeThresholds, splitOf: (run: string) => string): DecodedTables {
+export function decodeRuns(
+  model: HmmModel,
+  tables: RunsTable[],
+  th: DecodeThresholds,
+  splitOf: (run: string) => string,
+  /** Odometry bins of run `run` of table `table`, when the runs carry movement columns. */
+  movesOf?: (table: number, run: number) => MoveSteps | undefined,
+): DecodedTables {
   const chain = chainFromModel(model);
   const log = logChain(chain);
   const nRows = tables.reduce((s, t) => s + t.nRows, 0);
@@ -35,9 +44,10 @@ export function decodeRuns(model: HmmModel, tables: RunsTable[], th: DecodeThres
   const summaries: DecodedTables['summaries'] = [];
   const impossibleRuns: string[] = [];
   let base = 0;
-  for (const table of tables) {
-    for (const run of table.runs) {
-      const dec = decodeRun(chain, log, run.obs);
+  for (const [ti, table] of tables.entries()) {
+    for (const [ri, run] of table.runs.entries()) {
+      const moves = chain.move ? movesOf?.(ti, ri) : undefined;
+      const dec = moves ? decodeMoveRun(chain, log, run.obs, moves) : decodeRun(chain, log, run.obs);
       const stepFlags = new Uint8Array(run.obs.length);
       const summary = summarizeRun(run.obs, dec, th, stepFlags);
       summaries.push({ run: run.id, split: splitOf(run.id), ...summary });
