@@ -89,7 +89,9 @@ export async function compareFromFiles(config: CompareConfig, onProgress?: (p: C
   const floor = await readFloor(config.floor);
   const old = await readModel(config.model);
   checkModelFloor(old.model, config.model, floor, config.floor);
-  const loaded = await loadRuns(config.runs, { surfaces: floor.surfaces, ...config.keys });
+  const withOdometry = await loadRuns(config.runs, { surfaces: floor.surfaces, ...config.keys });
+  // compare tests the readings only: odometry is read (and checked) but not used.
+  const loaded = { ...withOdometry, runs: withOdometry.runs.map(({ moves: _moves, ...run }) => run) };
   const options: FitOptions = { ...config.fit, fromDigest: await fileDigest(config.model) };
   const floorDigest = await fileDigest(config.floor);
   const start = intoFamily(old.model, options.transitions, options.dwell);
@@ -159,7 +161,9 @@ export async function compareFromFiles(config: CompareConfig, onProgress?: (p: C
     nullDraws: config.nullDraws,
     options: config.compare,
     newFloor,
-    warnings: loaded.warnings,
+    warnings: withOdometry.movement
+      ? [...loaded.warnings, `compare: the odometry columns (${[withOdometry.movement.movedCol, withOdometry.movement.headingCol].filter((c) => c).join(', ')}) are ignored; compare tests the readings only`]
+      : loaded.warnings,
   };
 }
 
