@@ -1,3 +1,4 @@
+import { accumulateMoveLanes } from './accumulate-move-lanes.js';
 import { LANES, type SparseChain } from '../kernels/sparse-chain.js';
 import { forwardScore } from '../kernels/forward-score.js';
 import { emptyCounts, type ExpectedCountsTable } from '../model/expected-counts-table.js';
@@ -38,10 +39,21 @@ export function accumulateBlock(
   const obsOf = (r: number): Int32Array => packed.obs.subarray(packed.offsets[r], packed.offsets[r + 1]);
   const logs = new Float64Array(runs.length);
   if (withMove) {
-    // Runs with odometry: one run at a time through the movement kernels (per-step transitions).
-    for (let b = 0; b < runs.length; b++) {
-      logs[b] = addMoveRunCounts(chain, obsOf(runs[b]), moveStepsOf(packed, runs[b]), counts, counts.move!, ws);
-      if (logs[b] === -Infinity) return { counts, impossibleRun: runs[b] };
+    // Runs with odometry (per-step transitions): lane groups through the movement lane kernels for the
+    // `tied`/`fixed` M-steps (totals form), a run left alone — or every run for `learned`, which needs
+    // per-link counts — through the single-run movement kernels.
+    const laneLogs = new Float64Array(LANES);
+    for (const members of mode === 'learned' ? Array.from({ length: runs.length }, (_, b) => [b]) : laneGroups(runs, packed.offsets)) {
+      if (members.length === 1) {
+        const b = members[0];
+        logs[b] = addMoveRunCounts(chain, obsOf(runs[b]), moveStepsOf(packed, runs[b]), counts, counts.move!, ws);
+        if (logs[b] === -Infinity) return { counts, impossibleRun: runs[b] };
+        continue;
+      }
+      if (!accumulateMoveLanes(chain, packed, members.map((b) => runs[b]), counts, ws, laneLogs)) {
+        return { counts, impossibleRun: runs[members[laneLogs.findIndex((x, k) => k < members.length && x === -Infinity)]] };
+      }
+      members.forEach((b, k) => (logs[b] = laneLogs[k]));
     }
     for (let b = 0; b < runs.length; b++) {
       counts.logLik += logs[b];

@@ -1,3 +1,4 @@
+import type { MoveLaneBuffers } from './accumulate-move-lanes.js';
 import { LANES, type LaneGroup } from '../kernels/sparse-chain.js';
 import type { LaneAccumulators, LaneKernels } from '../kernels/lane-kernels.js';
 import { JsLaneKernels } from '../kernels/js-lane-kernels.js';
@@ -78,6 +79,8 @@ export class EStepWorkspace {
   }
 
   private moveScratch = new Float64Array(0);
+  /** Buffers of the movement lane kernels (`accumulateMoveLanes`), made on first use. */
+  moveLanes: MoveLaneBuffers | null = null;
 
   /** Scratch of the movement kernels (2 · nCells numbers). */
   moveWork(nCells: number): Float64Array {

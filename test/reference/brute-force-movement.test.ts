@@ -8,6 +8,8 @@ import { emptyCounts } from '../../src/model/expected-counts-table.js';
 import { addMoveRunCounts } from '../../src/fit/add-move-run-counts.js';
 import { EStepWorkspace } from '../../src/fit/e-step-workspace.js';
 import { expectClose } from '../helpers/close.js';
+import { accumulateMoveLanes } from '../../src/fit/accumulate-move-lanes.js';
+import { packRuns } from '../../src/fit/packed-runs.js';
 import { enumerateMovePaths, pathProbability, randomMoveModel, randomMoveSteps } from '../helpers/movement-oracle.js';
 
 const TOL = { abs: 1e-12, rel: 1e-12 };
@@ -78,6 +80,62 @@ describe('movement kernels against brute-force enumeration of all paths (per-ste
         for (let t = 0; t < T; t++) if (obs[t] === 0) g += ref.gamma[t][i];
         expectClose(counts.emitT[i], g, TOL, `reading-0 count of cell ${i}`);
       }
+    });
+  }
+});
+
+describe('movement lane kernels (JavaScript) against brute-force enumeration, eight runs of different lengths', () => {
+  const rng = new SeededRandom(20261204);
+  for (let trial = 0; trial < 15; trial++) {
+    const nCells = 1 + rng.int(4);
+    const nReadings = 2 + rng.int(3);
+    const seed = rng.nextUint32();
+    const runs = Array.from({ length: 8 }, () => {
+      const T = 1 + rng.int(6);
+      return { obs: Array.from({ length: T }, () => (rng.next() < 0.15 ? -1 : rng.int(nReadings))), ...randomMoveSteps(rng, T) };
+    });
+    it(`log-likelihoods and totals-form E-step counts equal enumeration (trial ${trial}: ${nCells} cells, lengths ${runs.map((r) => r.obs.length).join(' ')})`, () => {
+      const model = randomMoveModel(seed, nCells, nReadings);
+      const chain = chainFromModel(model);
+      const nLinks = chain.outPtr[nCells];
+      const packed = packRuns(runs.map((r, k) => ({ id: `r${k}`, obs: Int32Array.from(r.obs), moves: { dBin: Int32Array.from(r.dBin), hBin: Int32Array.from(r.hBin) } })));
+      const counts = emptyCounts(nCells, chain.nnz, nReadings, nLinks);
+      const logs = new Float64Array(8);
+      expect(accumulateMoveLanes(chain, packed, [0, 1, 2, 3, 4, 5, 6, 7], counts, new EStepWorkspace(), logs)).toBe(true);
+      const s = model.structure;
+      const eligible = (i: number): boolean => chain.dwell[i] > 0 && chain.dwell[i] < 1;
+      const dwell = new Float64Array(nCells);
+      const moved = new Float64Array(nCells);
+      const stay = new Float64Array(150);
+      const go = new Float64Array(150);
+      const byHeading = new Float64Array(72 * nLinks);
+      const reading0 = new Float64Array(nCells);
+      runs.forEach((r, k) => {
+        const ref = enumerateMovePaths(model, r.obs, r.dBin, r.hBin);
+        expectClose(logs[k], Math.log(ref.total), TOL, `lane ${k} log P`);
+        for (let t = 0; t < r.obs.length; t++) for (let i = 0; i < nCells; i++) if (r.obs[t] === 0) reading0[i] += ref.gamma[t][i];
+        for (let t = 1; t < r.obs.length; t++) {
+          for (let i = 0; i < nCells; i++) {
+            for (let q = chain.outPtr[i]; q < chain.outPtr[i + 1]; q++) if (r.hBin[t] >= 0) byHeading[r.hBin[t] * nLinks + q] += ref.xi[t][i][chain.outIdx[q]];
+            for (let kk = s.succPtr[i]; kk < s.succPtr[i + 1]; kk++) {
+              const j = s.succIdx[kk];
+              const x = ref.xi[t][i][j];
+              if (r.dBin[t] < 0) (j === i ? dwell : moved)[i] += x;
+              else if (eligible(i)) (j === i ? stay : go)[r.dBin[t]] += x;
+            }
+          }
+        }
+      });
+      for (let i = 0; i < nCells; i++) {
+        expectClose(counts.trans[s.dwellPos[i]], dwell[i], TOL, `dwell count of cell ${i}`);
+        if (chain.outPtr[i + 1] > chain.outPtr[i]) expectClose(counts.trans[chain.outPos[chain.outPtr[i]]], moved[i], TOL, `move total of cell ${i}`);
+        expectClose(counts.emitT[i], reading0[i], TOL, `reading-0 count of cell ${i}`);
+      }
+      for (let b = 0; b < 150; b++) {
+        expectClose(counts.move!.stayByDistance[b], stay[b], TOL, `stays at ${b}`);
+        expectClose(counts.move!.moveByDistance[b], go[b], TOL, `moves at ${b}`);
+      }
+      for (let x = 0; x < 72 * nLinks; x++) expectClose(counts.move!.linkByHeading[x], byHeading[x], TOL, `link count ${x}`);
     });
   }
 });
