@@ -4,8 +4,9 @@
  *
  *     npm run build && node dist/bench/movement-split.js [runs] [repeats]
  *
- * Rows: plain E-step with the WebAssembly lanes, plain with the JavaScript lanes, and the E-step with
- * movement columns (distance and heading known at every step). Printed: median and fastest pass in ns
+ * Rows: plain E-step with the WebAssembly lanes, with the JavaScript lanes and one run at a time, and
+ * the E-step with movement columns (distance known at every step, heading at every move) with the
+ * JavaScript movement lanes and one run at a time. Printed: median and fastest pass in ns
  * per step-link (total steps × transition nonzeros), and the movement cost relative to each plain one.
  */
 import { makeScenario } from './make-scenario.js';
@@ -60,5 +61,9 @@ const single = time('plain E-step, one run at a time (JavaScript)', () => {
   // accumulateBlock sends a lone run through the single-run kernels: blocks of one run.
   for (let r = 0; r < runs.length; r++) accumulateBlock(plainChain, plainPacked, [r], wsJs, 'tied');
 });
-const move = time('movement E-step (JavaScript, one run at a time)', () => blocks.forEach((b) => accumulateBlock(moveChain, movePacked, b, wsMove, 'tied')));
-process.stdout.write(`movement / plain WebAssembly lanes: ${(move / wasm).toFixed(2)}×; / plain JavaScript lanes: ${(move / js).toFixed(2)}×; / plain one run at a time: ${(move / single).toFixed(2)}×\n`);
+const move = time('movement E-step, JavaScript lanes (tied)', () => blocks.forEach((b) => accumulateBlock(moveChain, movePacked, b, wsMove, 'tied')));
+const moveSingle = time('movement E-step, one run at a time (JavaScript)', () => {
+  for (let r = 0; r < runs.length; r++) accumulateBlock(moveChain, movePacked, [r], wsMove, 'tied');
+});
+process.stdout.write(`movement JavaScript lanes / plain WebAssembly lanes: ${(move / wasm).toFixed(2)}×; / plain JavaScript lanes: ${(move / js).toFixed(2)}×\n`);
+process.stdout.write(`movement one run at a time / plain one run at a time: ${(moveSingle / single).toFixed(2)}×\n`);
