@@ -30,6 +30,7 @@ import { moveStepsFromOdometry } from '../../src/model/move-steps-from-odometry.
 import { maximizeMovement } from '../../src/model/maximize-movement.js';
 import { DEFAULT_MOVEMENT } from '../../src/model/default-movement.js';
 import { chainFromModel } from '../../src/model/chain-from-model.js';
+import { linkBearings } from '../../src/model/link-bearings.js';
 import { emptyMoveAccumulators } from '../../src/model/expected-counts-table.js';
 
 const here = (name: string): string => fileURLToPath(new URL(name, import.meta.url));
@@ -65,8 +66,10 @@ floor.cells.forEach((cell, i) => {
   const walkRng = new SeededRandom(2027);
   const chain = chainFromModel(model);
   const n = chain.nCells;
-  const nLinks = chain.outPtr[n];
-  const acc = emptyMoveAccumulators(nLinks);
+  const bearings = linkBearings(model.structure, model.cells);
+  const cosOf = (q: number): number => (Number.isNaN(bearings[q]) ? 0 : Math.cos(bearings[q]));
+  const sinOf = (q: number): number => (Number.isNaN(bearings[q]) ? 0 : Math.sin(bearings[q]));
+  const acc = emptyMoveAccumulators(n);
   for (let w = 0; w < 20; w++) {
     const { cells } = sampleRun(model, 2000, walkRng);
     const od = sampleOdometry(model, cells, walkRng);
@@ -80,7 +83,9 @@ floor.cells.forEach((cell, i) => {
         if (hBin[t] >= 0) {
           let q = chain.outPtr[i];
           while (chain.outIdx[q] !== j) q++;
-          acc.linkByHeading[hBin[t] * nLinks + q] += 1;
+          acc.moveByHeading[hBin[t] * n + i] += 1;
+          acc.headingCos[hBin[t]] += cosOf(q);
+          acc.headingSin[hBin[t]] += sinOf(q);
         }
       }
     }

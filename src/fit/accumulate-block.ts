@@ -35,7 +35,7 @@ export function accumulateBlock(
   mode: TransitionMode = 'learned',
 ): BlockCounts {
   const withMove = chain.move !== undefined && packed.dBin !== undefined;
-  const counts = emptyCounts(chain.nCells, chain.nnz, chain.nReadings, withMove ? chain.outPtr[chain.nCells] : -1);
+  const counts = emptyCounts(chain.nCells, chain.nnz, chain.nReadings, withMove);
   const obsOf = (r: number): Int32Array => packed.obs.subarray(packed.offsets[r], packed.offsets[r + 1]);
   const logs = new Float64Array(runs.length);
   if (withMove) {

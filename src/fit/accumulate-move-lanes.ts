@@ -23,7 +23,9 @@ export class MoveLaneBuffers {
     moveCount: new Float64Array(0),
     stayByDistance: new Float64Array(0),
     moveByDistance: new Float64Array(0),
-    linkByHeading: new Float64Array(0),
+    moveByHeading: new Float64Array(0),
+    headingCos: new Float64Array(0),
+    headingSin: new Float64Array(0),
   };
 }
 
@@ -67,7 +69,9 @@ export function accumulateMoveLanes(
   a.moveCount = grow(a.moveCount, n);
   a.stayByDistance = grow(a.stayByDistance, move.stayByDistance.length);
   a.moveByDistance = grow(a.moveByDistance, move.stayByDistance.length);
-  a.linkByHeading = grow(a.linkByHeading, (HEADING_BINS + 1) * nLinks);
+  a.moveByHeading = grow(a.moveByHeading, (HEADING_BINS + 1) * n);
+  a.headingCos = grow(a.headingCos, HEADING_BINS + 1);
+  a.headingSin = grow(a.headingSin, HEADING_BINS + 1);
   if (buf.moves.dBin.length < T * LANES) buf.moves = { dBin: new Int32Array(T * LANES), hBin: new Int32Array(T * LANES) };
   const { dBin, hBin } = buf.moves;
   dBin.fill(-1, 0, T * LANES);
@@ -115,7 +119,11 @@ export function accumulateMoveLanes(
     mv.stayByDistance[k] += a.stayByDistance[k];
     mv.moveByDistance[k] += a.moveByDistance[k];
   }
-  for (let x = 0; x < HEADING_BINS * nLinks; x++) mv.linkByHeading[x] += a.linkByHeading[x];
-  for (const x of [a.emitCount, a.startCount, a.dwellCount, a.moveCount, a.stayByDistance, a.moveByDistance, a.linkByHeading]) x.fill(0);
+  for (let x = 0; x < HEADING_BINS * n; x++) mv.moveByHeading[x] += a.moveByHeading[x];
+  for (let b = 0; b < HEADING_BINS; b++) {
+    mv.headingCos[b] += a.headingCos[b];
+    mv.headingSin[b] += a.headingSin[b];
+  }
+  for (const x of [a.emitCount, a.startCount, a.dwellCount, a.moveCount, a.stayByDistance, a.moveByDistance, a.moveByHeading, a.headingCos, a.headingSin]) x.fill(0);
   return true;
 }

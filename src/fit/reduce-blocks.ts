@@ -1,4 +1,3 @@
-import { HEADING_BINS } from '../kernels/move-chain.js';
 import type { HmmModel } from '../model/hmm-model.js';
 import { emptyCounts, type ExpectedCountsTable } from '../model/expected-counts-table.js';
 import { addCounts } from '../model/add-counts.js';
@@ -9,8 +8,7 @@ import { checkFiniteCounts } from './check-finite-counts.js';
 /** Sums per-block counts in block order; names the run if one was impossible. */
 export function reduceBlocks(model: HmmModel, packed: PackedRuns, blockCounts: ReadonlyArray<{ counts: ExpectedCountsTable; impossibleRun: number }>): ExpectedCountsTable {
   const s = model.structure;
-  const withMove = blockCounts.find((b) => b.counts.move)?.counts.move;
-  const total = emptyCounts(s.nCells, s.nnz, model.surfaces.length, withMove ? withMove.linkByHeading.length / HEADING_BINS : -1);
+  const total = emptyCounts(s.nCells, s.nnz, model.surfaces.length, blockCounts.some((b) => b.counts.move));
   for (const b of blockCounts) {
     if (b.impossibleRun >= 0) {
       const r = b.impossibleRun;

@@ -12,8 +12,11 @@ export interface MoveLaneAccumulators {
   moveCount: Float64Array;
   stayByDistance: Float64Array;
   moveByDistance: Float64Array;
-  /** (nHeadingBins + 1) × nLinks: link uses per heading bin; the last row takes steps of unknown heading (discarded). */
-  linkByHeading: Float64Array;
+  /** (nHeadingBins + 1) × nCells: moves out of each cell per heading bin; the last row takes steps of unknown heading (discarded). */
+  moveByHeading: Float64Array;
+  /** nHeadingBins + 1: Σ ξ cos θ and Σ ξ sin θ per heading bin (last entry discarded), see `MoveAccumulators`. */
+  headingCos: Float64Array;
+  headingSin: Float64Array;
 }
 
 /**
@@ -21,7 +24,7 @@ export interface MoveLaneAccumulators {
  * form that `tied` and `fixed` need: γ into `emitCount` (and `startCount` at t = 0); at steps whose
  * distance is unknown each cell's dwell count and its move total (`dwellCount`, `moveCount`); at steps
  * whose distance is known the expected stays and moves of eligible cells per distance bin; per heading
- * bin the expected use of every link. Same ŵ conventions as `backwardTotalsLanes`; each lane's numbers
+ * bin each cell's expected moves and Σ ξ cos θ, Σ ξ sin θ (`MoveAccumulators`). Same ŵ conventions as `backwardTotalsLanes`; each lane's numbers
  * are those of `backwardMoveSegment` on the run alone. No allocation.
  */
 export function backwardMoveLanes(
@@ -38,13 +41,13 @@ export function backwardMoveLanes(
   acc: MoveLaneAccumulators,
 ): void {
   const { nCells: n, dwell, outPtr, outIdx, emitT } = chain;
-  const { stayByDistance, eligible, splitOut, nHeadingBins } = move;
+  const { stayByDistance, eligible, splitOut, nHeadingBins, linkCos, linkSin } = move;
   const nLinks = outPtr[n];
   const rows = group.rows;
   const lens = group.laneSteps;
   const T = group.nSteps;
   const stride = 8 * n;
-  const { emitCount, startCount, dwellCount, moveCount, linkByHeading } = acc;
+  const { emitCount, startCount, dwellCount, moveCount, moveByHeading, headingCos, headingSin } = acc;
   let next = w;
   let out = wSpare;
   for (let t = t1 - 1; t >= t0; t--) {
@@ -107,6 +110,30 @@ export function backwardMoveLanes(
     const sd5 = db5 >= 0 ? stayByDistance[db5] : -1;
     const sd6 = db6 >= 0 ? stayByDistance[db6] : -1;
     const sd7 = db7 >= 0 ? stayByDistance[db7] : -1;
+    const hc0 = (hb0 < 0 ? nHeadingBins : hb0) * n;
+    const hc1 = (hb1 < 0 ? nHeadingBins : hb1) * n;
+    const hc2 = (hb2 < 0 ? nHeadingBins : hb2) * n;
+    const hc3 = (hb3 < 0 ? nHeadingBins : hb3) * n;
+    const hc4 = (hb4 < 0 ? nHeadingBins : hb4) * n;
+    const hc5 = (hb5 < 0 ? nHeadingBins : hb5) * n;
+    const hc6 = (hb6 < 0 ? nHeadingBins : hb6) * n;
+    const hc7 = (hb7 < 0 ? nHeadingBins : hb7) * n;
+    let xc0 = 0;
+    let xc1 = 0;
+    let xc2 = 0;
+    let xc3 = 0;
+    let xc4 = 0;
+    let xc5 = 0;
+    let xc6 = 0;
+    let xc7 = 0;
+    let xs0 = 0;
+    let xs1 = 0;
+    let xs2 = 0;
+    let xs3 = 0;
+    let xs4 = 0;
+    let xs5 = 0;
+    let xs6 = 0;
+    let xs7 = 0;
     let stays0 = 0;
     let stays1 = 0;
     let stays2 = 0;
@@ -176,9 +203,27 @@ export function backwardMoveLanes(
       let l5 = 0;
       let l6 = 0;
       let l7 = 0;
+      let lc0 = 0;
+      let lc1 = 0;
+      let lc2 = 0;
+      let lc3 = 0;
+      let lc4 = 0;
+      let lc5 = 0;
+      let lc6 = 0;
+      let lc7 = 0;
+      let ls0 = 0;
+      let ls1 = 0;
+      let ls2 = 0;
+      let ls3 = 0;
+      let ls4 = 0;
+      let ls5 = 0;
+      let ls6 = 0;
+      let ls7 = 0;
       const end = outPtr[i + 1];
       for (let q = outPtr[i]; q < end; q++) {
         const v = (outIdx[q] << 3) | 0;
+        const cq = linkCos[q];
+        const sq = linkSin[q];
         const w0 = splitOut[o0 + q] * next[(v + 0) | 0];
         const w1 = splitOut[o1 + q] * next[(v + 1) | 0];
         const w2 = splitOut[o2 + q] * next[(v + 2) | 0];
@@ -195,15 +240,47 @@ export function backwardMoveLanes(
         l5 += w5;
         l6 += w6;
         l7 += w7;
-        linkByHeading[o0 + q] += um0 * w0;
-        linkByHeading[o1 + q] += um1 * w1;
-        linkByHeading[o2 + q] += um2 * w2;
-        linkByHeading[o3 + q] += um3 * w3;
-        linkByHeading[o4 + q] += um4 * w4;
-        linkByHeading[o5 + q] += um5 * w5;
-        linkByHeading[o6 + q] += um6 * w6;
-        linkByHeading[o7 + q] += um7 * w7;
+        lc0 += w0 * cq;
+        lc1 += w1 * cq;
+        lc2 += w2 * cq;
+        lc3 += w3 * cq;
+        lc4 += w4 * cq;
+        lc5 += w5 * cq;
+        lc6 += w6 * cq;
+        lc7 += w7 * cq;
+        ls0 += w0 * sq;
+        ls1 += w1 * sq;
+        ls2 += w2 * sq;
+        ls3 += w3 * sq;
+        ls4 += w4 * sq;
+        ls5 += w5 * sq;
+        ls6 += w6 * sq;
+        ls7 += w7 * sq;
       }
+      moveByHeading[hc0 + i] += um0 * l0;
+      moveByHeading[hc1 + i] += um1 * l1;
+      moveByHeading[hc2 + i] += um2 * l2;
+      moveByHeading[hc3 + i] += um3 * l3;
+      moveByHeading[hc4 + i] += um4 * l4;
+      moveByHeading[hc5 + i] += um5 * l5;
+      moveByHeading[hc6 + i] += um6 * l6;
+      moveByHeading[hc7 + i] += um7 * l7;
+      xc0 += um0 * lc0;
+      xc1 += um1 * lc1;
+      xc2 += um2 * lc2;
+      xc3 += um3 * lc3;
+      xc4 += um4 * lc4;
+      xc5 += um5 * lc5;
+      xc6 += um6 * lc6;
+      xc7 += um7 * lc7;
+      xs0 += um0 * ls0;
+      xs1 += um1 * ls1;
+      xs2 += um2 * ls2;
+      xs3 += um3 * ls3;
+      xs4 += um4 * ls4;
+      xs5 += um5 * ls5;
+      xs6 += um6 * ls6;
+      xs7 += um7 * ls7;
       let plainDwell = 0;
       let plainMove = 0;
       if (db0 < 0) {{ plainDwell += u0 * d0; plainMove += um0 * l0; }} else if (el) {{ stays0 += u0 * d0; goes0 += um0 * l0; }}
@@ -258,6 +335,14 @@ export function backwardMoveLanes(
     if (db5 >= 0) {{ acc.stayByDistance[db5] += stays5; acc.moveByDistance[db5] += goes5; }}
     if (db6 >= 0) {{ acc.stayByDistance[db6] += stays6; acc.moveByDistance[db6] += goes6; }}
     if (db7 >= 0) {{ acc.stayByDistance[db7] += stays7; acc.moveByDistance[db7] += goes7; }}
+    if (hb0 >= 0) {{ headingCos[hb0] += xc0; headingSin[hb0] += xs0; }}
+    if (hb1 >= 0) {{ headingCos[hb1] += xc1; headingSin[hb1] += xs1; }}
+    if (hb2 >= 0) {{ headingCos[hb2] += xc2; headingSin[hb2] += xs2; }}
+    if (hb3 >= 0) {{ headingCos[hb3] += xc3; headingSin[hb3] += xs3; }}
+    if (hb4 >= 0) {{ headingCos[hb4] += xc4; headingSin[hb4] += xs4; }}
+    if (hb5 >= 0) {{ headingCos[hb5] += xc5; headingSin[hb5] += xs5; }}
+    if (hb6 >= 0) {{ headingCos[hb6] += xc6; headingSin[hb6] += xs6; }}
+    if (hb7 >= 0) {{ headingCos[hb7] += xc7; headingSin[hb7] += xs7; }}
     const swap = next;
     next = out;
     out = swap;

@@ -7,8 +7,15 @@ export interface MoveAccumulators {
   stayByDistance: Float64Array;
   /** Per distance bin: expected moves Σ_{j ≠ i} ξ_t(i, j) over eligible cells at steps with that distance. */
   moveByDistance: Float64Array;
-  /** Per heading bin and link (out order), nHeadingBins × nLinks: expected uses of the link at steps with that heading. */
-  linkByHeading: Float64Array;
+  /** Per heading bin and cell, nHeadingBins × nCells: expected moves out of the cell (Σ_{j ≠ i} ξ) at steps with that heading. */
+  moveByHeading: Float64Array;
+  /**
+   * Per heading bin: Σ ξ_t(i, j) cos θ_ij and Σ ξ_t(i, j) sin θ_ij over links with a bearing at steps
+   * with that heading. With `moveByHeading` these are all that the κ M-step needs (Q_κ is linear in
+   * them), and they cost registers rather than one count per link.
+   */
+  headingCos: Float64Array;
+  headingSin: Float64Array;
 }
 
 /**
@@ -22,7 +29,7 @@ export interface MoveAccumulators {
  * Adds γ into `emitCount`, γ_0 into `startCount` (t0 = 0), and the transition counts by what the step
  * knows: distance unknown → `dwellCount[i]` and `linkCount[q]` (the plain dwell's counts); distance
  * known → `acc.stayByDistance` / `acc.moveByDistance` at its bin (eligible cells only); heading known →
- * also `acc.linkByHeading` at its bin. Same ŵ conventions as `backwardCountsSegment`. No allocation.
+ * also `acc.moveByHeading`, `acc.headingCos`, `acc.headingSin` at its bin. Same ŵ conventions as `backwardCountsSegment`. No allocation.
  */
 export function backwardMoveSegment(
   chain: SparseChain,
@@ -42,13 +49,15 @@ export function backwardMoveSegment(
   acc: MoveAccumulators,
 ): void {
   const { nCells: n, nReadings: m, dwell, outPtr, outIdx, emitT } = chain;
-  const { stayByDistance, eligible, splitOut, nHeadingBins } = move;
+  const { stayByDistance, eligible, splitOut, nHeadingBins, linkCos, linkSin } = move;
   const nLinks = outPtr[n];
   const { dBin, hBin } = steps;
   const last = obs.length - 1;
   let next = w;
   let out = wSpare;
   for (let t = t1 - 1; t >= t0; t--) {
+    let xc = 0;
+    let xs = 0;
     const row = (t - t0 + 1) * n;
     const o = obs[t];
     const e = (o < 0 ? m : o) * n;
@@ -58,7 +67,7 @@ export function backwardMoveSegment(
     const db = inside ? dBin[t + 1] : -1;
     const hb = inside ? hBin[t + 1] : -1;
     const off = (hb < 0 ? nHeadingBins : hb) * nLinks;
-    const hOff = hb * nLinks;
+    const hOff = hb * n;
     const sd = db >= 0 ? stayByDistance[db] : 0;
     let stays = 0;
     let moves = 0;
@@ -71,13 +80,19 @@ export function backwardMoveSegment(
       let l = 0;
       const end = outPtr[i + 1];
       const um = u * mv;
+      let lc = 0;
+      let ls = 0;
       for (let q = outPtr[i]; q < end; q++) {
         const v = splitOut[off + q] * next[outIdx[q]];
         l += v;
-        if (inside) {
-          if (db < 0) linkCount[q] += um * v;
-          if (hb >= 0) acc.linkByHeading[hOff + q] += um * v;
-        }
+        lc += v * linkCos[q];
+        ls += v * linkSin[q];
+        if (inside && db < 0) linkCount[q] += um * v;
+      }
+      if (inside && hb >= 0) {
+        acc.moveByHeading[hOff + i] += um * l;
+        xc += um * lc;
+        xs += um * ls;
       }
       if (inside) {
         if (db < 0) dwellCount[i] += u * d;
@@ -95,6 +110,10 @@ export function backwardMoveSegment(
     if (db >= 0) {
       acc.stayByDistance[db] += stays;
       acc.moveByDistance[db] += moves;
+    }
+    if (hb >= 0) {
+      acc.headingCos[hb] += xc;
+      acc.headingSin[hb] += xs;
     }
     const swap = next;
     next = out;

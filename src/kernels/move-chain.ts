@@ -26,6 +26,9 @@ export interface MoveChain {
   eligible: Uint8Array;
   splitOut: Float64Array;
   splitIn: Float64Array;
+  /** cos θ and sin θ of every link's bearing (out order; 0 for a link without one), for the κ counts. */
+  linkCos: Float64Array;
+  linkSin: Float64Array;
 }
 
 /** The odometry of one run as bins, index t = the transition into step t (entry 0 unused). */

@@ -14,7 +14,11 @@ export function addCounts(a: ExpectedCountsTable, b: ExpectedCountsTable): Expec
     const y = b.move;
     for (let k = 0; k < x.stayByDistance.length; k++) x.stayByDistance[k] += y.stayByDistance[k];
     for (let k = 0; k < x.moveByDistance.length; k++) x.moveByDistance[k] += y.moveByDistance[k];
-    for (let k = 0; k < x.linkByHeading.length; k++) x.linkByHeading[k] += y.linkByHeading[k];
+    for (let k = 0; k < x.moveByHeading.length; k++) x.moveByHeading[k] += y.moveByHeading[k];
+    for (let k = 0; k < x.headingCos.length; k++) {
+      x.headingCos[k] += y.headingCos[k];
+      x.headingSin[k] += y.headingSin[k];
+    }
   }
   return a;
 }

@@ -27,7 +27,7 @@ export interface ExpectedCountsTable {
   move?: MoveAccumulators;
 }
 
-export function emptyCounts(nCells: number, nnz: number, nReadings: number, nLinks = -1): ExpectedCountsTable {
+export function emptyCounts(nCells: number, nnz: number, nReadings: number, withMove = false): ExpectedCountsTable {
   const counts: ExpectedCountsTable = {
     start: new Float64Array(nCells),
     trans: new Float64Array(nnz),
@@ -36,15 +36,17 @@ export function emptyCounts(nCells: number, nnz: number, nReadings: number, nLin
     nReadings: 0,
     nRuns: 0,
   };
-  if (nLinks >= 0) counts.move = emptyMoveAccumulators(nLinks);
+  if (withMove) counts.move = emptyMoveAccumulators(nCells);
   return counts;
 }
 
-/** Zeroed movement counts for `nLinks` links (with `nLinks` ≥ 0, `emptyCounts` adds them). */
-export function emptyMoveAccumulators(nLinks: number): MoveAccumulators {
+/** Zeroed movement counts for `nCells` cells (`emptyCounts(…, true)` adds them). */
+export function emptyMoveAccumulators(nCells: number): MoveAccumulators {
   return {
     stayByDistance: new Float64Array(DISTANCE_BINS),
     moveByDistance: new Float64Array(DISTANCE_BINS),
-    linkByHeading: new Float64Array(HEADING_BINS * nLinks),
+    moveByHeading: new Float64Array(HEADING_BINS * nCells),
+    headingCos: new Float64Array(HEADING_BINS),
+    headingSin: new Float64Array(HEADING_BINS),
   };
 }

@@ -15,7 +15,8 @@ const MAX_NEWTON = 60;
  * of the transitions that depend on them, given the E-step's movement counts:
  *
  *   Q_s(a, b) = Σ_d S_d log σ(a − b·d) + M_d log(1 − σ(a − b·d))        (stays S, moves M per distance bin)
- *   Q_κ(κ)   = Σ_h Σ_i Σ_{i → j} C_hij log split_h(i → j; κ)           (link uses C per heading bin)
+ *   Q_κ(κ)   = Σ_h Σ_i Σ_{i → j} C_hij log split_h(i → j; κ)           (link uses C per heading bin,
+ *                                                                        through their sufficient counts)
  *
  * Both are concave (a weighted logistic regression; a log-linear split), so each is climbed by Newton
  * steps with step halving, a step taken only when it raises Q: a generalised EM step that never lowers
@@ -24,7 +25,7 @@ const MAX_NEWTON = 60;
  */
 export function maximizeMovement(model: HmmModel, params: MovementParams, acc: MoveAccumulators): MovementParams {
   const [stayLogit, stayPerMetre] = maximizeStay(params.stayLogit, params.stayPerMetre, acc.stayByDistance, acc.moveByDistance);
-  const kappa = maximizeKappa(model, params.kappa, acc.linkByHeading);
+  const kappa = maximizeKappa(model, params.kappa, acc);
   return { stayLogit, stayPerMetre, kappa };
 }
 
@@ -102,20 +103,22 @@ function clamp(x: number, bound: number): number {
 }
 
 /**
- * Q_κ and its first two derivatives. For heading bin h and cell i with link uses C_q (q over i's
- * links), c_q = cos(h − θ_q) (0 without a bearing) and base split p_q:
- * Q = Σ C_q (κ c_q) − C_i log Σ_q p_q e^{κ c_q} + const; Q' = Σ C_q c_q − C_i E[c]; Q'' = −C_i Var[c].
+ * Q_κ and its first two derivatives, from the compact counts: per heading bin h and cell i the moves
+ * C_hi, per bin X_h = Σ ξ cos θ and Y_h = Σ ξ sin θ. With c_q = cos(h − θ_q) (0 without a bearing) and
+ * the plain split p_q over i's links, Z_hi(κ) = Σ_q p_q e^{κ (c_q − 1)}:
+ *   Q = Σ_h κ (cos h · X_h + sin h · Y_h) − Σ_{h,i} C_hi (κ + log Z_hi) + const,
+ *   Q' = Σ_h (cos h · X_h + sin h · Y_h) − Σ C_hi E_hi[c],   Q'' = −Σ C_hi Var_hi[c].
  */
-function kappaQ(kappa: number, cosines: Float64Array, base: Float64Array, outPtr: Int32Array, counts: Float64Array, active: Int32Array): [number, number, number] {
+function kappaQ(kappa: number, cosines: Float64Array, base: Float64Array, outPtr: Int32Array, linear: number, moves: Float64Array, active: Int32Array, n: number): [number, number, number] {
   const nLinks = base.length;
-  let q = 0;
-  let g = 0;
+  let q = kappa * linear;
+  let g = linear;
   let h = 0;
   for (let x = 0; x < active.length; x += 2) {
     const hb = active[x];
     const i = active[x + 1];
     const off = hb * nLinks;
-    let ci = 0;
+    const ci = moves[hb * n + i];
     let z = 0;
     let m1 = 0;
     let m2 = 0;
@@ -125,54 +128,50 @@ function kappaQ(kappa: number, cosines: Float64Array, base: Float64Array, outPtr
       z += v;
       m1 += v * c;
       m2 += v * c * c;
-      ci += counts[off + k];
-      q += counts[off + k] * kappa * (c - 1);
-      g += counts[off + k] * c;
     }
     if (z <= 0) continue;
     const mean = m1 / z;
-    q -= ci * Math.log(z);
+    q -= ci * (kappa + Math.log(z));
     g -= ci * mean;
     h -= ci * (m2 / z - mean * mean);
   }
   return [q, g, h];
 }
 
-function maximizeKappa(model: HmmModel, kappa0: number, counts: Float64Array): number {
+function maximizeKappa(model: HmmModel, kappa0: number, acc: MoveAccumulators): number {
   const chain = chainFromModel({ ...model, movement: undefined });
   const { outPtr, outProb } = chain;
   const n = chain.nCells;
   const nLinks = outPtr[n];
   const bearings = linkBearings(model.structure, model.cells);
-  // The (heading bin, cell) pairs that have link uses, and every link's cosine per bin.
+  // The (heading bin, cell) pairs with moves, every link's cosine per bin, and the linear term.
   const active: number[] = [];
   const cosines = new Float64Array(HEADING_BINS * nLinks);
+  let linear = 0;
   for (let hb = 0; hb < HEADING_BINS; hb++) {
     const hd = ((hb + 0.5) * HEADING_BIN_DEGREES * Math.PI) / 180;
+    linear += Math.cos(hd) * acc.headingCos[hb] + Math.sin(hd) * acc.headingSin[hb];
     for (let i = 0; i < n; i++) {
-      let any = false;
-      for (let k = outPtr[i]; k < outPtr[i + 1]; k++) {
-        cosines[hb * nLinks + k] = Number.isNaN(bearings[k]) ? 0 : Math.cos(hd - bearings[k]);
-        if (counts[hb * nLinks + k] > 0) any = true;
-      }
-      if (any) active.push(hb, i);
+      for (let k = outPtr[i]; k < outPtr[i + 1]; k++) cosines[hb * nLinks + k] = Number.isNaN(bearings[k]) ? 0 : Math.cos(hd - bearings[k]);
+      if (acc.moveByHeading[hb * n + i] > 0 && outPtr[i + 1] > outPtr[i]) active.push(hb, i);
     }
   }
   if (active.length === 0) return kappa0;
   const act = Int32Array.from(active);
+  const moves = acc.moveByHeading;
   let kappa = kappa0;
-  let [q, g, h] = kappaQ(kappa, cosines, outProb, outPtr, counts, act);
+  let [q, g, h] = kappaQ(kappa, cosines, outProb, outPtr, linear, moves, act, n);
   for (let it = 0; it < MAX_NEWTON; it++) {
     const dir = h < 0 ? -g / h : g;
     let step = 1;
     let moved = false;
     for (let half = 0; half < 40; half++, step /= 2) {
       const nk = Math.max(0, Math.min(KAPPA_BOUND, kappa + step * dir));
-      const [nq] = kappaQ(nk, cosines, outProb, outPtr, counts, act);
+      const [nq] = kappaQ(nk, cosines, outProb, outPtr, linear, moves, act, n);
       if (nq > q) {
         const gain = nq - q;
         kappa = nk;
-        [q, g, h] = kappaQ(kappa, cosines, outProb, outPtr, counts, act);
+        [q, g, h] = kappaQ(kappa, cosines, outProb, outPtr, linear, moves, act, n);
         moved = gain > 1e-12 * Math.abs(q);
         break;
       }

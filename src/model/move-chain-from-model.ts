@@ -50,7 +50,9 @@ export function moveChainFromModel(chain: SparseChain, params: MovementParams, b
     const off = b * nLinks;
     for (let p = 0; p < nLinks; p++) splitIn[off + p] = splitOut[off + inToOut[p]];
   }
-  return { nHeadingBins: HEADING_BINS, stayByDistance, eligible, splitOut, splitIn };
+  const linkCos = Float64Array.from(bearings, (b) => (Number.isNaN(b) ? 0 : Math.cos(b)));
+  const linkSin = Float64Array.from(bearings, (b) => (Number.isNaN(b) ? 0 : Math.sin(b)));
+  return { nHeadingBins: HEADING_BINS, stayByDistance, eligible, splitOut, splitIn, linkCos, linkSin };
 }
 
 export function logistic(x: number): number {

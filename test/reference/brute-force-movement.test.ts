@@ -10,6 +10,8 @@ import { EStepWorkspace } from '../../src/fit/e-step-workspace.js';
 import { expectClose } from '../helpers/close.js';
 import { accumulateMoveLanes } from '../../src/fit/accumulate-move-lanes.js';
 import { packRuns } from '../../src/fit/packed-runs.js';
+import type { HmmModel } from '../../src/model/hmm-model.js';
+import type { MoveAccumulators } from '../../src/kernels/backward-move-segment.js';
 import { enumerateMovePaths, pathProbability, randomMoveModel, randomMoveSteps } from '../helpers/movement-oracle.js';
 
 const TOL = { abs: 1e-12, rel: 1e-12 };
@@ -42,8 +44,7 @@ describe('movement kernels against brute-force enumeration of all paths (per-ste
         expectClose(dec.likelyP[t], Math.max(...ref.gamma[t]), TOL, `best posterior at ${t}`);
       }
       // E-step counts: plain counts at steps with unknown distance, movement counts by bin.
-      const nLinks = chain.outPtr[nCells];
-      const counts = emptyCounts(nCells, chain.nnz, nReadings, nLinks);
+      const counts = emptyCounts(nCells, chain.nnz, nReadings, true);
       const ll = addMoveRunCounts(chain, o, steps, counts, counts.move!, new EStepWorkspace());
       expectClose(ll, Math.log(ref.total), TOL, 'E-step log P');
       const s = model.structure;
@@ -51,7 +52,7 @@ describe('movement kernels against brute-force enumeration of all paths (per-ste
       const expTrans = new Float64Array(s.nnz);
       const stay = new Map<number, number>();
       const go = new Map<number, number>();
-      const byHeading = new Map<string, number>();
+      const heading = headingStats(model, nCells);
       for (let t = 1; t < T; t++) {
         for (let i = 0; i < nCells; i++) {
           for (let k = s.succPtr[i]; k < s.succPtr[i + 1]; k++) {
@@ -59,7 +60,7 @@ describe('movement kernels against brute-force enumeration of all paths (per-ste
             const x = ref.xi[t][i][j];
             if (dBin[t] < 0) expTrans[k] += x;
             else if (eligible(i)) (j === i ? stay : go).set(dBin[t], ((j === i ? stay : go).get(dBin[t]) ?? 0) + x);
-            if (hBin[t] >= 0 && j !== i) byHeading.set(`${hBin[t]}:${i}:${j}`, (byHeading.get(`${hBin[t]}:${i}:${j}`) ?? 0) + x);
+            if (hBin[t] >= 0 && j !== i) heading.add(hBin[t], i, j, x);
           }
         }
       }
@@ -68,13 +69,7 @@ describe('movement kernels against brute-force enumeration of all paths (per-ste
         expectClose(counts.move!.stayByDistance[b], stay.get(b) ?? 0, TOL, `stays at distance bin ${b}`);
         expectClose(counts.move!.moveByDistance[b], go.get(b) ?? 0, TOL, `moves at distance bin ${b}`);
       }
-      for (let hb = 0; hb < 72; hb++) {
-        for (let i = 0; i < nCells; i++) {
-          for (let q = chain.outPtr[i]; q < chain.outPtr[i + 1]; q++) {
-            expectClose(counts.move!.linkByHeading[hb * nLinks + q], byHeading.get(`${hb}:${i}:${chain.outIdx[q]}`) ?? 0, TOL, `link count ${hb}/${q}`);
-          }
-        }
-      }
+      heading.check(counts.move!);
       for (let i = 0; i < nCells; i++) {
         let g = 0;
         for (let t = 0; t < T; t++) if (obs[t] === 0) g += ref.gamma[t][i];
@@ -97,9 +92,8 @@ describe('movement lane kernels (JavaScript) against brute-force enumeration, ei
     it(`log-likelihoods and totals-form E-step counts equal enumeration (trial ${trial}: ${nCells} cells, lengths ${runs.map((r) => r.obs.length).join(' ')})`, () => {
       const model = randomMoveModel(seed, nCells, nReadings);
       const chain = chainFromModel(model);
-      const nLinks = chain.outPtr[nCells];
       const packed = packRuns(runs.map((r, k) => ({ id: `r${k}`, obs: Int32Array.from(r.obs), moves: { dBin: Int32Array.from(r.dBin), hBin: Int32Array.from(r.hBin) } })));
-      const counts = emptyCounts(nCells, chain.nnz, nReadings, nLinks);
+      const counts = emptyCounts(nCells, chain.nnz, nReadings, true);
       const logs = new Float64Array(8);
       expect(accumulateMoveLanes(chain, packed, [0, 1, 2, 3, 4, 5, 6, 7], counts, new EStepWorkspace(), logs)).toBe(true);
       const s = model.structure;
@@ -108,7 +102,7 @@ describe('movement lane kernels (JavaScript) against brute-force enumeration, ei
       const moved = new Float64Array(nCells);
       const stay = new Float64Array(150);
       const go = new Float64Array(150);
-      const byHeading = new Float64Array(72 * nLinks);
+      const heading = headingStats(model, nCells);
       const reading0 = new Float64Array(nCells);
       runs.forEach((r, k) => {
         const ref = enumerateMovePaths(model, r.obs, r.dBin, r.hBin);
@@ -116,7 +110,7 @@ describe('movement lane kernels (JavaScript) against brute-force enumeration, ei
         for (let t = 0; t < r.obs.length; t++) for (let i = 0; i < nCells; i++) if (r.obs[t] === 0) reading0[i] += ref.gamma[t][i];
         for (let t = 1; t < r.obs.length; t++) {
           for (let i = 0; i < nCells; i++) {
-            for (let q = chain.outPtr[i]; q < chain.outPtr[i + 1]; q++) if (r.hBin[t] >= 0) byHeading[r.hBin[t] * nLinks + q] += ref.xi[t][i][chain.outIdx[q]];
+            for (let q = chain.outPtr[i]; q < chain.outPtr[i + 1]; q++) if (r.hBin[t] >= 0) heading.add(r.hBin[t], i, chain.outIdx[q], ref.xi[t][i][chain.outIdx[q]]);
             for (let kk = s.succPtr[i]; kk < s.succPtr[i + 1]; kk++) {
               const j = s.succIdx[kk];
               const x = ref.xi[t][i][j];
@@ -135,7 +129,33 @@ describe('movement lane kernels (JavaScript) against brute-force enumeration, ei
         expectClose(counts.move!.stayByDistance[b], stay[b], TOL, `stays at ${b}`);
         expectClose(counts.move!.moveByDistance[b], go[b], TOL, `moves at ${b}`);
       }
-      for (let x = 0; x < 72 * nLinks; x++) expectClose(counts.move!.linkByHeading[x], byHeading[x], TOL, `link count ${x}`);
+      heading.check(counts.move!);
     });
   }
 });
+
+/** The κ counts from enumerated ξ: moves per heading bin and cell, Σ ξ cos θ and Σ ξ sin θ per bin (θ from the cells' coordinates). */
+function headingStats(model: HmmModel, nCells: number): { add: (hb: number, i: number, j: number, x: number) => void; check: (acc: MoveAccumulators) => void } {
+  const moves = new Float64Array(72 * nCells);
+  const cos = new Float64Array(72);
+  const sin = new Float64Array(72);
+  return {
+    add(hb, i, j, x) {
+      moves[hb * nCells + i] += x;
+      const a = model.cells[i];
+      const b = model.cells[j];
+      if (a.level === b.level && (a.x !== b.x || a.y !== b.y)) {
+        const theta = Math.atan2(b.y - a.y, b.x - a.x);
+        cos[hb] += x * Math.cos(theta);
+        sin[hb] += x * Math.sin(theta);
+      }
+    },
+    check(acc) {
+      for (let k = 0; k < moves.length; k++) expectClose(acc.moveByHeading[k], moves[k], TOL, `moves by heading ${k}`);
+      for (let hb = 0; hb < 72; hb++) {
+        expectClose(acc.headingCos[hb], cos[hb], TOL, `Σ ξ cos θ at heading bin ${hb}`);
+        expectClose(acc.headingSin[hb], sin[hb], TOL, `Σ ξ sin θ at heading bin ${hb}`);
+      }
+    },
+  };
+}
