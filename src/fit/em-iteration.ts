@@ -1,5 +1,6 @@
 import type { MoveSteps } from '../kernels/move-chain.js';
 import { maximizeMovement } from '../model/maximize-movement.js';
+import { marginalDwell } from '../model/marginal-dwell.js';
 import type { HmmModel } from '../model/hmm-model.js';
 import { chainFromModel } from '../model/chain-from-model.js';
 import type { ExpectedCountsTable } from '../model/expected-counts-table.js';
@@ -71,5 +72,5 @@ export function emIteration(
 /** The movement M-step after `maximizeModel` (as `runEm` does): learned in `tied` mode, held otherwise. */
 function withMovementStep(before: HmmModel, after: HmmModel, counts: ExpectedCountsTable, options: MaximizeOptions): HmmModel {
   if (!before.movement || !counts.move || (options.mode ?? 'tied') !== 'tied') return after;
-  return { ...after, movement: maximizeMovement(after, before.movement, counts.move) };
+  return { ...marginalDwell(after, counts, counts.move), movement: maximizeMovement(after, before.movement, counts.move) };
 }

@@ -1,6 +1,7 @@
 import type { HmmModel, TransitionMode } from '../model/hmm-model.js';
 import type { ExpectedCountsTable } from '../model/expected-counts-table.js';
 import { maximizeMovement } from '../model/maximize-movement.js';
+import { marginalDwell } from '../model/marginal-dwell.js';
 import { maximizeModel } from '../model/maximize-model.js';
 import { emissionLogPrior } from '../model/emission-log-prior.js';
 import { WorkError } from '../errors.js';
@@ -99,8 +100,7 @@ export async function runEm(
     }
     const next = maximizeModel(model, counts, { mode: options.mode, priorStrength: options.priorStrength, prior: options.prior });
     // Movement parameters: learned in `tied` mode (a generalised EM step), held in `fixed` mode.
-    if (model.movement && counts.move && options.mode === 'tied') next.movement = maximizeMovement(next, model.movement, counts.move);
-    model = next;
+    model = model.movement && counts.move && options.mode === 'tied' ? { ...marginalDwell(next, counts, counts.move), movement: maximizeMovement(next, model.movement, counts.move) } : next;
     iterations++;
     if (afterStep) await afterStep({ model, iterations, history: history.slice() });
     if (signal?.aborted) throw new FitInterrupted();
