@@ -9,6 +9,7 @@ export { buildStructure } from './model/build-structure.js';
 export { surveyPrior } from './model/survey-prior.js';
 export { maximizeModel, type MaximizeOptions } from './model/maximize-model.js';
 export { chainFromModel } from './model/chain-from-model.js';
+export type { MovementParams } from './model/hmm-model.js';
 export { sampleRun } from './model/sample-run.js';
 export { SeededRandom } from './model/seeded-random.js';
 export { analyzeFloor, type FloorAnalysis } from './model/analyze-floor.js';
@@ -27,6 +28,11 @@ export { fitModel, DEFAULT_FIT_OPTIONS, type FitInput, type FitResult, type FitP
 export type { FitOptions, FitRecord, LoopRecord } from './fit/fit-record.js';
 
 export { decodeRun, type DecodedRun } from './decode/decode-run.js';
+// Wheel odometry (DEVELOPERS.md, "Movement"): a table's odometry columns, their bins, decoding with them.
+export { runMovement, type RunOdometry, type TableMovement } from './io/run-movement.js';
+export { moveStepsFromOdometry } from './model/move-steps-from-odometry.js';
+export { decodeMoveRun } from './decode/decode-move-run.js';
+export type { MoveSteps } from './kernels/move-chain.js';
 export { scoreRun } from './decode/score-run.js';
 export { logChain } from './decode/log-chain.js';
 
