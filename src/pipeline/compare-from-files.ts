@@ -1,3 +1,6 @@
+import type { MoveSteps } from '../kernels/move-chain.js';
+import type { SparseChain } from '../kernels/sparse-chain.js';
+import { forwardMoveSegment } from '../kernels/forward-move-segment.js';
 import { readFloor } from '../io/read-floor.js';
 import { readModel } from '../io/read-model.js';
 import { fileDigest } from '../io/file-digest.js';
@@ -90,8 +93,10 @@ export async function compareFromFiles(config: CompareConfig, onProgress?: (p: C
   const old = await readModel(config.model);
   checkModelFloor(old.model, config.model, floor, config.floor);
   const withOdometry = await loadRuns(config.runs, { surfaces: floor.surfaces, ...config.keys });
-  // compare tests the readings only: odometry is read (and checked) but not used.
-  const loaded = { ...withOdometry, runs: withOdometry.runs.map(({ moves: _moves, ...run }) => run) };
+  // Odometry is used when the old model has movement parameters (held fixed: flooring does not change
+  // how the robot moves); otherwise it is read and checked, then ignored with a warning.
+  const useOdometry = withOdometry.movement !== null && old.model.movement !== undefined;
+  const loaded = useOdometry ? withOdometry : { ...withOdometry, runs: withOdometry.runs.map(({ moves: _moves, ...run }) => run) };
   const options: FitOptions = { ...config.fit, fromDigest: await fileDigest(config.model) };
   const floorDigest = await fileDigest(config.floor);
   const start = intoFamily(old.model, options.transitions, options.dwell);
@@ -104,7 +109,7 @@ export async function compareFromFiles(config: CompareConfig, onProgress?: (p: C
   // Each re-fit (of the new runs, then of every null draw) is the same search from the old model with
   // the prior centred on the old rows. Readings are then attributed to cells by the RE-FITTED model:
   // under the old model a changed cell's new readings would be credited to look-alike neighbours.
-  const refitOf = async (runs: ReadonlyArray<{ id: string; obs: Int32Array }>, draw: number) => {
+  const refitOf = async (runs: ReadonlyArray<{ id: string; obs: Int32Array; moves?: MoveSteps }>, draw: number) => {
     const packed = packRuns(runs, config.workers > 1);
     const blocks = toBlocks(runs.map((_, r) => r), options.blockSize);
     const engine: EStepEngine = config.workers > 1 ? new PoolEngine(packed, config.workers, { mode: options.transitions }) : new LocalEngine(packed, { mode: options.transitions });
@@ -161,8 +166,8 @@ export async function compareFromFiles(config: CompareConfig, onProgress?: (p: C
     nullDraws: config.nullDraws,
     options: config.compare,
     newFloor,
-    warnings: withOdometry.movement
-      ? [...loaded.warnings, `compare: the odometry columns (${[withOdometry.movement.movedCol, withOdometry.movement.headingCol].filter((c) => c).join(', ')}) are ignored; compare tests the readings only`]
+    warnings: withOdometry.movement && !useOdometry
+      ? [...loaded.warnings, `compare: the odometry columns (${[withOdometry.movement.movedCol, withOdometry.movement.headingCol].filter((c) => c).join(', ')}) are ignored: the old model has no movement parameters`]
       : loaded.warnings,
   };
 }
@@ -230,14 +235,19 @@ function oldCountsT(file: ModelFile): Float64Array | null {
   return t;
 }
 
-function scoreShift(oldModel: HmmModel, newModel: HmmModel, runs: ReadonlyArray<{ id: string; obs: Int32Array }>): RunShift[] {
+function scoreShift(oldModel: HmmModel, newModel: HmmModel, runs: ReadonlyArray<{ id: string; obs: Int32Array; moves?: MoveSteps }>): RunShift[] {
   const a = chainFromModel(oldModel);
   const b = chainFromModel(newModel);
   const work = new Float64Array(2 * a.nCells);
+  const score = (chain: SparseChain, r: (typeof runs)[number]): number => {
+    if (!chain.move || !r.moves) return forwardScore(chain, r.obs, r.obs.length, work);
+    const T = r.obs.length;
+    return forwardMoveSegment(chain, chain.move, r.obs, r.moves, 0, T, new Float64Array((T + 1) * chain.nCells), new Float64Array(T), 0, work);
+  };
   return runs.map((r) => {
     let readings = 0;
     for (let t = 0; t < r.obs.length; t++) if (r.obs[t] >= 0) readings++;
-    return { run: r.id, readings, before: forwardScore(a, r.obs, r.obs.length, work), after: forwardScore(b, r.obs, r.obs.length, work) };
+    return { run: r.id, readings, before: score(a, r), after: score(b, r) };
   });
 }
 
