@@ -9,6 +9,7 @@ export { buildStructure } from './model/build-structure.js';
 export { surveyPrior } from './model/survey-prior.js';
 export { maximizeModel, type MaximizeOptions } from './model/maximize-model.js';
 export { chainFromModel } from './model/chain-from-model.js';
+export type { MovementParams } from './model/hmm-model.js';
 export { sampleRun } from './model/sample-run.js';
 export { SeededRandom } from './model/seeded-random.js';
 export { analyzeFloor, type FloorAnalysis } from './model/analyze-floor.js';
@@ -32,6 +33,11 @@ export { autoCandidates, shareRestarts } from './fit/auto-candidates.js';
 
 export { decodeRun, type DecodedRun, type DecodeOptions } from './decode/decode-run.js';
 export { positionLayout, type PositionLayout } from './decode/position-layout.js';
+// Wheel odometry (DEVELOPERS.md, "Movement"): a table's odometry columns, their bins, decoding with them.
+export { runMovement, type RunOdometry, type TableMovement } from './io/run-movement.js';
+export { moveStepsFromOdometry } from './model/move-steps-from-odometry.js';
+export { decodeMoveRun } from './decode/decode-move-run.js';
+export type { MoveSteps } from './kernels/move-chain.js';
 export { scoreRun } from './decode/score-run.js';
 export { logChain } from './decode/log-chain.js';
 

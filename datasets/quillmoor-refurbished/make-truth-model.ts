@@ -13,7 +13,7 @@
  *
  *   node dist/src/cli/bin.js simulate --floor datasets/quillmoor/floor.json \
  *     --model datasets/quillmoor-refurbished/truth-model.json --runs 60 --steps 600 --seed 12 \
- *     --dropout-rate 0.02 --gap-rate 0.005 --out datasets/quillmoor-refurbished/runs.csv
+ *     --dropout-rate 0.02 --gap-rate 0.005 --odometry --out datasets/quillmoor-refurbished/runs.csv
  */
 import { readFileSync, writeFileSync } from 'node:fs';
 import { fileURLToPath } from 'node:url';

@@ -61,6 +61,11 @@ export function formatCheck(r: CheckReport): string {
     lines.push('');
     lines.push(`  runs    ${u.runs} runs in ${u.files.length} file${u.files.length === 1 ? '' : 's'} · ${u.steps} steps (${u.rows} rows) · run length ${u.shortestRun}–${u.longestRun}`);
     lines.push(`          ${u.dropouts} dropouts · ${u.gapSteps} missing steps (gaps)${u.unknownReadings ? ` · ${u.unknownReadings} unknown readings turned into dropouts` : ''}`);
+    if (u.odometry) {
+      const o = u.odometry;
+      const parts = [o.movedCol ? `${o.movedCol}: distance known at ${o.knownDistance} of ${o.transitions} steps` : 'no distance column', o.headingCol ? `${o.headingCol}: known at ${o.knownHeading}` : 'no heading column'];
+      lines.push(`          odometry · ${parts.join(' · ')}`);
+    }
   }
   lines.push('');
   if (r.warnings.length) {

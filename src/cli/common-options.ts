@@ -3,18 +3,25 @@ import { DEFAULT_KEY_COLUMNS, type KeyColumns } from '../pipeline/key-columns.js
 import { InputError, quote } from '../errors.js';
 
 /** Adds the runs-table column options shared by commands that read runs. */
-export function addKeyColumnOptions(cmd: Command): Command {
-  return cmd
+export function addKeyColumnOptions(cmd: Command, movement = true): Command {
+  cmd
     .option('--run-col <name>', 'column holding the run id', DEFAULT_KEY_COLUMNS.runCol)
     .option('--step-col <name>', 'column holding the step number', DEFAULT_KEY_COLUMNS.stepCol)
     .option('--reading-col <name>', 'column holding the reading', DEFAULT_KEY_COLUMNS.readingCol)
     .option('--unknown-readings <mode>', 'a reading not in the floor\'s surfaces: "error" or "dropout"', 'error');
+  if (!movement) return cmd;
+  return cmd
+    .option('--moved-col <name>', 'column holding the metres moved since the previous row (odometry; used when present)', undefined)
+    .option('--heading-col <name>', 'column holding the heading of travel in degrees (odometry; used when present)', undefined);
 }
 
 export function keyColumnsFrom(opts: Record<string, unknown>, where: string): KeyColumns {
   const mode = opts.unknownReadings;
   if (mode !== 'error' && mode !== 'dropout') throw new InputError(`${where}: --unknown-readings must be "error" or "dropout", got ${quote(mode)}`);
-  return { runCol: String(opts.runCol), stepCol: String(opts.stepCol), readingCol: String(opts.readingCol), unknownReadings: mode };
+  const keys: KeyColumns = { runCol: String(opts.runCol), stepCol: String(opts.stepCol), readingCol: String(opts.readingCol), unknownReadings: mode };
+  if (typeof opts.movedCol === 'string') keys.movedCol = opts.movedCol;
+  if (typeof opts.headingCol === 'string') keys.headingCol = opts.headingCol;
+  return keys;
 }
 
 /** Adds --quiet, --json and --debug. */

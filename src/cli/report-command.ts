@@ -19,7 +19,7 @@ export function registerReport(program: Command, io: CliIo): void {
     .option('--sim-steps <t>', 'steps per simulated run (default: the median real run, else 400)')
     .option('--seed <s>', 'seed of the simulation', String(DEFAULT_AMBIGUITY_OPTIONS.seed))
     .option('--ambiguous-below <p>', 'a cell recovered less often than this is ambiguous', String(DEFAULT_AMBIGUITY_OPTIONS.threshold));
-  addKeyColumnOptions(cmd);
+  addKeyColumnOptions(cmd, false);
   addOutputOptions(cmd);
   cmd.action(async (opts: Record<string, unknown>) => {
     const config = reportConfig(opts);

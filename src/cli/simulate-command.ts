@@ -17,7 +17,10 @@ export function registerSimulate(program: Command, io: CliIo): void {
     .option('--hit <p>', 'without --model: probability of reading the surveyed surface', '0.8')
     .option('--dwell <p>', 'without --model: probability of staying in the same cell per step', '0.5')
     .option('--dropout-rate <p>', 'probability that a reading is empty', '0')
-    .option('--gap-rate <p>', 'probability that a step is lost (row missing)', '0');
+    .option('--gap-rate <p>', 'probability that a step is lost (row missing)', '0')
+    .option('--odometry', 'write wheel-odometry columns (always done when the model has movement parameters)')
+    .option('--moved-col <name>', 'name of the odometry distance column', 'moved')
+    .option('--heading-col <name>', 'name of the odometry heading column', 'heading');
   addOutputOptions(cmd);
   cmd.action(async (opts: Record<string, unknown>) => {
     const config = simulateConfig(opts);
@@ -52,5 +55,8 @@ export function simulateConfig(opts: Record<string, unknown>): SimulateConfig {
     dwell: prob('dwell', '--dwell', (x) => x > 0 && x < 1, 'a probability strictly between 0 and 1'),
     dropoutRate: prob('dropoutRate', '--dropout-rate', (x) => x >= 0 && x < 1, 'a probability in [0, 1)'),
     gapRate: prob('gapRate', '--gap-rate', (x) => x >= 0 && x < 1, 'a probability in [0, 1)'),
+    odometry: opts.odometry === true,
+    movedCol: String(opts.movedCol ?? 'moved'),
+    headingCol: String(opts.headingCol ?? 'heading'),
   };
 }

@@ -105,7 +105,7 @@ export function decodeRun(chain: SparseChain, log: LogChain, obs: Int32Array, op
 }
 
 /** Per-step area and position outputs, NaN / −1 until decoded (they stay so for an impossible run). */
-function newPositionSteps(T: number): PositionSteps {
+export function newPositionSteps(T: number): PositionSteps {
   return {
     likelyZone: new Int32Array(T).fill(-1),
     zoneP: new Float64Array(T).fill(NaN),

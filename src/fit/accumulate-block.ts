@@ -1,3 +1,4 @@
+import { accumulateMoveLanes } from './accumulate-move-lanes.js';
 import { LANES, type SparseChain } from '../kernels/sparse-chain.js';
 import { forwardScore } from '../kernels/forward-score.js';
 import { emptyCounts, type ExpectedCountsTable } from '../model/expected-counts-table.js';
@@ -5,7 +6,8 @@ import type { TransitionMode } from '../model/hmm-model.js';
 import { addRunCounts } from './add-run-counts.js';
 import { accumulateLanes } from './accumulate-lanes.js';
 import type { EStepWorkspace } from './e-step-workspace.js';
-import type { PackedRuns } from './packed-runs.js';
+import { moveStepsOf, type PackedRuns } from './packed-runs.js';
+import { addMoveRunCounts } from './add-move-run-counts.js';
 import { laneGroups } from './lane-groups.js';
 
 export interface BlockCounts {
@@ -32,9 +34,34 @@ export function accumulateBlock(
   ws: EStepWorkspace,
   mode: TransitionMode = 'learned',
 ): BlockCounts {
-  const counts = emptyCounts(chain.nCells, chain.nnz, chain.nReadings);
+  const withMove = chain.move !== undefined && packed.dBin !== undefined;
+  const counts = emptyCounts(chain.nCells, chain.nnz, chain.nReadings, withMove);
   const obsOf = (r: number): Int32Array => packed.obs.subarray(packed.offsets[r], packed.offsets[r + 1]);
   const logs = new Float64Array(runs.length);
+  if (withMove) {
+    // Runs with odometry (per-step transitions): lane groups through the movement lane kernels for the
+    // `tied`/`fixed` M-steps (totals form), a run left alone — or every run for `learned`, which needs
+    // per-link counts — through the single-run movement kernels.
+    const laneLogs = new Float64Array(LANES);
+    for (const members of mode === 'learned' ? Array.from({ length: runs.length }, (_, b) => [b]) : laneGroups(runs, packed.offsets)) {
+      if (members.length === 1) {
+        const b = members[0];
+        logs[b] = addMoveRunCounts(chain, obsOf(runs[b]), moveStepsOf(packed, runs[b]), counts, counts.move!, ws);
+        if (logs[b] === -Infinity) return { counts, impossibleRun: runs[b] };
+        continue;
+      }
+      if (!accumulateMoveLanes(chain, packed, members.map((b) => runs[b]), counts, ws, laneLogs)) {
+        return { counts, impossibleRun: runs[members[laneLogs.findIndex((x, k) => k < members.length && x === -Infinity)]] };
+      }
+      members.forEach((b, k) => (logs[b] = laneLogs[k]));
+    }
+    for (let b = 0; b < runs.length; b++) {
+      counts.logLik += logs[b];
+      counts.nReadings += countReadings(obsOf(runs[b]));
+      counts.nRuns += 1;
+    }
+    return { counts, impossibleRun: -1 };
+  }
   const laneLogs = new Float64Array(LANES);
   const perLink = mode === 'learned';
   for (const members of laneGroups(runs, packed.offsets)) {

@@ -35,7 +35,7 @@ function checkParams(p: CheckpointParams, model: HmmModel, where: string, fail: 
   const n = model.cells.length;
   const m = model.surfaces.length;
   const s = model.structure;
-  const sizes: Array<[keyof CheckpointParams, number]> = [['start', n], ['trans', s.nnz], ['emission', n * m]];
+  const sizes: Array<['start' | 'trans' | 'emission', number]> = [['start', n], ['trans', s.nnz], ['emission', n * m]];
   for (const [k, size] of sizes) if (p[k].length !== size) fail(`${where}.${k} must hold ${size} numbers for this floor, got ${p[k].length}`);
   const sumOf = (values: number[], from: number, to: number): number => {
     let sum = 0;
@@ -45,6 +45,9 @@ function checkParams(p: CheckpointParams, model: HmmModel, where: string, fail: 
   const check = (sum: number, what: string): void => {
     if (!(Math.abs(sum - 1) <= SUM_TOLERANCE)) fail(`${where}.${what} must sum to 1, got ${sum}`);
   };
+  if ((p.movement !== undefined) !== (model.movement !== undefined)) {
+    fail(`${where}.movement must ${model.movement ? 'be present (this fit uses odometry)' : 'be absent (this fit uses no odometry)'}, got ${p.movement ? 'movement parameters' : 'none'}`);
+  }
   check(sumOf(p.start, 0, n), 'start');
   for (let i = 0; i < n; i++) {
     check(sumOf(p.trans, s.succPtr[i], s.succPtr[i + 1]), `trans (row of cell ${JSON.stringify(model.cells[i].id)})`);

@@ -1,3 +1,4 @@
+import type { MoveLaneBuffers } from './accumulate-move-lanes.js';
 import { LANES, type LaneGroup, type SparseChain } from '../kernels/sparse-chain.js';
 import type { LaneAccumulators, LaneKernels } from '../kernels/lane-kernels.js';
 import { JsLaneKernels } from '../kernels/js-lane-kernels.js';
@@ -94,6 +95,16 @@ export class EStepWorkspace {
     c.lastGamma = grow(c.lastGamma, nCells);
     c.startCount = grow(c.startCount, nCells);
     return this;
+  }
+
+  private moveScratch = new Float64Array(0);
+  /** Buffers of the movement lane kernels (`accumulateMoveLanes`), made on first use. */
+  moveLanes: MoveLaneBuffers | null = null;
+
+  /** Scratch of the movement kernels (2 · nCells numbers). */
+  moveWork(nCells: number): Float64Array {
+    if (this.moveScratch.length < 2 * nCells) this.moveScratch = new Float64Array(2 * nCells);
+    return this.moveScratch;
   }
 
   /** Makes sure `checkpoints` holds `size` numbers; returns it. */

@@ -1,3 +1,6 @@
+import type { MoveSteps } from '../kernels/move-chain.js';
+import { maximizeMovement } from '../model/maximize-movement.js';
+import { marginalDwell } from '../model/marginal-dwell.js';
 import type { HmmModel } from '../model/hmm-model.js';
 import { chainFromModel } from '../model/chain-from-model.js';
 import type { ExpectedCountsTable } from '../model/expected-counts-table.js';
@@ -13,6 +16,8 @@ import { reduceBlocks } from './reduce-blocks.js';
 export interface RunReadings {
   id: string;
   obs: Int32Array;
+  /** Odometry bins (`moveStepsFromOdometry`), used when the model has movement parameters. */
+  moves?: MoveSteps;
 }
 
 export interface EmIterationResult {
@@ -56,10 +61,16 @@ export function emIteration(
   const counts = reduceBlocks(model, packed, blocks);
   const logPrior = emissionLogPrior(model, options.prior, options.priorStrength ?? 10);
   return {
-    model: maximizeModel(model, counts, options),
+    model: withMovementStep(model, maximizeModel(model, counts, options), counts, options),
     counts,
     logLik: counts.logLik,
     logPrior,
     objective: counts.logLik + logPrior,
   };
+}
+
+/** The movement M-step after `maximizeModel` (as `runEm` does): learned in `tied` mode, held otherwise. */
+function withMovementStep(before: HmmModel, after: HmmModel, counts: ExpectedCountsTable, options: MaximizeOptions): HmmModel {
+  if (!before.movement || !counts.move || (options.mode ?? 'tied') !== 'tied') return after;
+  return { ...marginalDwell(after, counts, counts.move), movement: maximizeMovement(after, before.movement, counts.move) };
 }

@@ -1,5 +1,7 @@
 import type { HmmModel, TransitionMode } from '../model/hmm-model.js';
 import type { ExpectedCountsTable } from '../model/expected-counts-table.js';
+import { maximizeMovement } from '../model/maximize-movement.js';
+import { marginalDwell } from '../model/marginal-dwell.js';
 import { maximizeModel } from '../model/maximize-model.js';
 import { emObjective, maximizeOptionsOf } from './em-objective.js';
 import { InterruptedError, WorkError } from '../errors.js';
@@ -93,7 +95,9 @@ export async function runEm(
     if (iterations >= options.maxIter) {
       return { model, iterations, stopReason: 'max-iter', history, logLikPerReading: counts.logLik / Math.max(1, counts.nReadings), counts };
     }
-    model = maximizeModel(model, counts, maximizeOptionsOf(options));
+    const next = maximizeModel(model, counts, maximizeOptionsOf(options));
+    // Movement parameters: learned in `tied` mode (a generalised EM step), held in `fixed` mode.
+    model = model.movement && counts.move && options.mode === 'tied' ? { ...marginalDwell(next, counts, counts.move), movement: maximizeMovement(next, model.movement, counts.move) } : next;
     iterations++;
     if (afterStep) await afterStep({ model, iterations, history: history.slice() });
     if (signal?.aborted) throw new InterruptedError('the fit was interrupted', signal.reason === 'SIGTERM' ? 'SIGTERM' : 'SIGINT');

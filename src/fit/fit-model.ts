@@ -1,3 +1,5 @@
+import type { MoveSteps } from '../kernels/move-chain.js';
+import { DEFAULT_MOVEMENT } from '../model/default-movement.js';
 import type { FloorGraph } from '../model/floor-graph.js';
 import type { HmmModel } from '../model/hmm-model.js';
 import { buildModel } from '../model/build-model.js';
@@ -30,7 +32,13 @@ import { predictiveCalibration } from './predictive-calibration.js';
 
 export interface FitInput {
   floor: FloorGraph;
-  runs: ReadonlyArray<{ id: string; obs: Int32Array }>;
+  runs: ReadonlyArray<{ id: string; obs: Int32Array; moves?: MoveSteps }>;
+  /**
+   * The runs carry odometry (`moves`): with `tied` and `fixed` transitions the model gets movement
+   * parameters — the warm start's, or `DEFAULT_MOVEMENT` — learned (`tied`) or held (`fixed`); other
+   * modes ignore the odometry (the caller warns). Without it the fit is exactly as before.
+   */
+  movement?: boolean;
   /** Per run, true when a `--holdout-col` marks it `held-out` (overrides the random fraction). */
   heldOutFlags?: boolean[];
   floorDigest: string;
@@ -113,11 +121,16 @@ export async function fitModel(
   if (runs.length === 0) throw new WorkError('fit: there must be at least one run, got none');
   const split = splitRuns(runs.length, o.holdout, o.seed, input.heldOutFlags);
   if (split.fit.length === 0) throw new WorkError('fit: at least one run must be left to fit on, got every run held out');
-  const packed = packRuns(runs, workers > 1);
-  const modes: TransitionMode[] = o.transitions === 'auto' ? autoCandidates({ movement: false }) : [o.transitions];
+  const modes: TransitionMode[] = o.transitions === 'auto' ? autoCandidates({ movement: input.movement === true }) : [o.transitions];
+  // Odometry shapes the transitions of the `tied` and `fixed` modes only; other modes fit without it.
+  const useMovement = input.movement === true && modes.every((mode) => mode === 'tied' || mode === 'fixed');
+  const packed = packRuns(useMovement ? runs : runs.map(({ id, obs }) => ({ id, obs })), workers > 1);
   const built = input.warmStart ? null : buildModel(floor, { dwell: o.dwell, hit: o.hit });
   // Restart 0 of each mode starts from the survey prior, or from the warm start brought into that mode's family.
-  const baseOf = (mode: TransitionMode): HmmModel => built ?? intoFamily(input.warmStart!, mode, o.dwell);
+  const baseOf = (mode: TransitionMode): HmmModel => {
+    const { movement: warmMovement, ...withoutMovement } = built ?? intoFamily(input.warmStart!, mode, o.dwell);
+    return useMovement ? { ...withoutMovement, movement: { ...(input.warmStart?.movement ?? warmMovement ?? DEFAULT_MOVEMENT) } } : withoutMovement;
+  };
   const base = baseOf(modes[0]);
   const surfaceIndex = new Map(floor.surfaces.map((s, r) => [s, r] as const));
   const prior = input.prior ?? surveyPrior(Int32Array.from(floor.cells, (c) => surfaceIndex.get(c.surface) ?? 0), floor.surfaces.length, o.hit);
@@ -130,7 +143,8 @@ export async function fitModel(
   const heldBlocks = toBlocks(split.heldOut, o.blockSize);
   const allBlocks = toBlocks(Array.from({ length: runs.length }, (_, r) => r), o.blockSize);
   // One engine serves every candidate of `auto`: per-link counts (the `learned` form) fit every M-step.
-  const engineMode: TransitionMode = modes.length > 1 ? 'learned' : modes[0];
+  // With odometry the candidates are `fixed` and `tied`, whose totals form serves both.
+  const engineMode: TransitionMode = modes.length > 1 ? (useMovement ? 'tied' : 'learned') : modes[0];
   const engine: EStepEngine = workers > 1 ? new PoolEngine(packed, workers, { mode: engineMode }) : new LocalEngine(packed, { mode: engineMode });
   try {
     const plan = restartPlan(modes, o.restarts, o.seed);
@@ -274,11 +288,15 @@ function checkpointKey(input: FitInput, o: FitOptions, configKey: string): strin
 }
 
 function paramsOf(model: HmmModel): CheckpointParams {
-  return { start: Array.from(model.start), trans: Array.from(model.trans), emission: Array.from(model.emission) };
+  const params: CheckpointParams = { start: Array.from(model.start), trans: Array.from(model.trans), emission: Array.from(model.emission) };
+  if (model.movement) params.movement = { ...model.movement };
+  return params;
 }
 
 function withParams(model: HmmModel, p: CheckpointParams): HmmModel {
-  return { ...model, start: Float64Array.from(p.start), trans: Float64Array.from(p.trans), emission: Float64Array.from(p.emission) };
+  const out: HmmModel = { ...model, start: Float64Array.from(p.start), trans: Float64Array.from(p.trans), emission: Float64Array.from(p.emission) };
+  if (p.movement) out.movement = { ...p.movement };
+  return out;
 }
 
 /** Expected readings per cell (rows) and surface (columns), from counts over all runs under `model`. */

@@ -1,3 +1,4 @@
+import { linkBearings } from '../model/link-bearings.js';
 import type { HmmModel, TransitionStructure } from '../model/hmm-model.js';
 
 /**
@@ -5,12 +6,14 @@ import type { HmmModel, TransitionStructure } from '../model/hmm-model.js';
  * SharedArrayBuffer, so posting it to a worker copies no numbers (structured clone shares the buffer);
  * `version` lets a worker reuse the kernels' view it built for the same model in an earlier task.
  */
-export interface ModelMessage extends Pick<HmmModel, 'surfaces' | 'structure' | 'start' | 'trans' | 'emission'> {
+export interface ModelMessage extends Pick<HmmModel, 'surfaces' | 'structure' | 'start' | 'trans' | 'emission' | 'movement'> {
   version: number;
+  /** Link bearings (`linkBearings`), sent with movement parameters (the message carries no cells). */
+  linkBearing?: Float64Array;
 }
 
 /** Copies the model's numbers into one SharedArrayBuffer (a few kilobytes per thousand cells). */
-export function modelMessage(model: Pick<HmmModel, 'surfaces' | 'structure' | 'start' | 'trans' | 'emission'>, version: number): ModelMessage {
+export function modelMessage(model: Pick<HmmModel, 'surfaces' | 'structure' | 'start' | 'trans' | 'emission' | 'movement'> & { cells?: HmmModel['cells'] }, version: number): ModelMessage {
   const s = model.structure;
   const ints = [s.succPtr, s.succIdx, s.predPtr, s.predIdx, s.predToSucc, s.dwellPos];
   const floats = [model.start, model.trans, model.emission];
@@ -43,5 +46,10 @@ export function modelMessage(model: Pick<HmmModel, 'surfaces' | 'structure' | 's
     predToSucc: i32(s.predToSucc),
     dwellPos: i32(s.dwellPos),
   };
-  return { version, surfaces: model.surfaces, structure, start, trans, emission };
+  const message: ModelMessage = { version, surfaces: model.surfaces, structure, start, trans, emission };
+  if (model.movement) {
+    message.movement = { ...model.movement };
+    if (model.cells) message.linkBearing = linkBearings(s, model.cells);
+  }
+  return message;
 }

@@ -8,7 +8,7 @@ import { checkFiniteCounts } from './check-finite-counts.js';
 /** Sums per-block counts in block order; names the run if one was impossible. */
 export function reduceBlocks(model: HmmModel, packed: PackedRuns, blockCounts: ReadonlyArray<{ counts: ExpectedCountsTable; impossibleRun: number }>): ExpectedCountsTable {
   const s = model.structure;
-  const total = emptyCounts(s.nCells, s.nnz, model.surfaces.length);
+  const total = emptyCounts(s.nCells, s.nnz, model.surfaces.length, blockCounts.some((b) => b.counts.move));
   for (const b of blockCounts) {
     if (b.impossibleRun >= 0) {
       const r = b.impossibleRun;

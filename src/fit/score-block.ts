@@ -2,7 +2,9 @@ import { LANES, type SparseChain } from '../kernels/sparse-chain.js';
 import { fillLaneGroup } from '../kernels/fill-lane-group.js';
 import { forwardSegment } from '../kernels/forward-segment.js';
 import type { EStepWorkspace } from './e-step-workspace.js';
-import type { PackedRuns } from './packed-runs.js';
+import { moveStepsOf, type PackedRuns } from './packed-runs.js';
+import type { MoveSteps } from '../kernels/move-chain.js';
+import { forwardMoveSegment } from '../kernels/forward-move-segment.js';
 import { laneGroups } from './lane-groups.js';
 
 export interface BlockScore {
@@ -26,7 +28,9 @@ export function scoreBlock(chain: SparseChain, packed: PackedRuns, runs: ArrayLi
   const obsOf = (r: number): Int32Array => packed.obs.subarray(packed.offsets[r], packed.offsets[r + 1]);
   const logs = new Float64Array(runs.length);
   const laneLogs = new Float64Array(LANES);
-  for (const members of laneGroups(runs, packed.offsets)) {
+  if (chain.move && packed.dBin) {
+    for (let b = 0; b < runs.length; b++) logs[b] = scoreMoveOne(chain, obsOf(runs[b]), moveStepsOf(packed, runs[b]), ws);
+  } else for (const members of laneGroups(runs, packed.offsets)) {
     if (members.length === 1) {
       logs[members[0]] = scoreOne(chain, obsOf(runs[members[0]]), ws);
     } else {
@@ -43,6 +47,22 @@ export function scoreBlock(chain: SparseChain, packed: PackedRuns, runs: ArrayLi
     for (let t = 0; t < obs.length; t++) if (obs[t] >= 0) nReadings++;
   }
   return { logLik, nReadings, impossibleRun: -1 };
+}
+
+function scoreMoveOne(chain: SparseChain, obs: Int32Array, steps: MoveSteps, ws: EStepWorkspace): number {
+  const n = chain.nCells;
+  const T = obs.length;
+  const window = Math.max(MIN_WINDOW, Math.floor(WINDOW_BYTES / (8 * n)) - 1);
+  ws.ensure(n, chain.nReadings, chain.outPtr[n], T, window);
+  const work = ws.moveWork(n);
+  let logP = 0;
+  for (let a = 0; a < T; a += window) {
+    const b = Math.min(T, a + window);
+    if (a > 0) ws.table.copyWithin(0, window * n, (window + 1) * n);
+    logP = forwardMoveSegment(chain, chain.move!, obs, steps, a, b, ws.table, ws.scale, logP, work);
+    if (logP === -Infinity) break;
+  }
+  return logP;
 }
 
 function scoreOne(chain: SparseChain, obs: Int32Array, ws: EStepWorkspace): number {

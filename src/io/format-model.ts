@@ -36,6 +36,7 @@ export function formatModel(file: ModelFile): string {
       cells,
       links,
       emission,
+      ...(model.movement ? { movement: { stayLogit: model.movement.stayLogit, stayPerMetre: model.movement.stayPerMetre, kappa: model.movement.kappa } } : {}),
       fit: file.fit,
     }) + '\n'
   );

@@ -38,11 +38,19 @@ export function parseCheckpoint(text: string, source: string): FitCheckpoint {
 
 function parseParams(value: unknown, where: string): CheckpointParams {
   const p = expectObject(value, where);
-  checkKeys(p, ['start', 'trans', 'emission'], where);
+  checkKeys(p, ['start', 'trans', 'emission', 'movement'], where);
   const probabilities = (k: 'start' | 'trans' | 'emission'): number[] =>
     expectList(p[k], `${where}.${k}`, (x, w) => {
       if (typeof x !== 'number' || !Number.isFinite(x) || x < 0 || x > 1) throw new InputError(`${w} must be a probability in [0, 1], got ${got(x)}`);
       return x;
     });
-  return { start: probabilities('start'), trans: probabilities('trans'), emission: probabilities('emission') };
+  const params: CheckpointParams = { start: probabilities('start'), trans: probabilities('trans'), emission: probabilities('emission') };
+  if (p.movement !== undefined) {
+    const m = expectObject(p.movement, `${where}.movement`);
+    checkKeys(m, ['stayLogit', 'stayPerMetre', 'kappa'], `${where}.movement`);
+    const kappa = expectFinite(m.kappa, `${where}.movement.kappa`);
+    if (kappa < 0) throw new InputError(`${where}.movement.kappa must be a number ≥ 0, got ${kappa}`);
+    params.movement = { stayLogit: expectFinite(m.stayLogit, `${where}.movement.stayLogit`), stayPerMetre: expectFinite(m.stayPerMetre, `${where}.movement.stayPerMetre`), kappa };
+  }
+  return params;
 }

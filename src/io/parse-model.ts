@@ -21,7 +21,7 @@ export function parseModel(text: string, source: string): ModelFile {
   const doc = parseJsonDocument(text, source);
   const root = asObject(doc, 'the model file', fail);
   if (root.format !== MODEL_FORMAT) fail(`"format" must be ${quote(MODEL_FORMAT)}, got ${quote(root.format)}`);
-  allowKeys(root, ['format', 'name', 'surfaces', 'cells', 'links', 'emission', 'fit'], 'the model file', fail);
+  allowKeys(root, ['format', 'name', 'surfaces', 'cells', 'links', 'emission', 'movement', 'fit'], 'the model file', fail);
   const name = typeof root.name === 'string' && isWellFormedText(root.name) ? root.name : fail(`"name" must be a string of well-formed text, got ${quote(root.name)}`);
   if (!Array.isArray(root.surfaces) || root.surfaces.length === 0 || !root.surfaces.every((s) => typeof s === 'string' && s.length > 0 && isWellFormedText(s))) {
     fail(`"surfaces" must be a non-empty list of names, got ${quote(root.surfaces)}`);
@@ -106,6 +106,20 @@ export function parseModel(text: string, source: string): ModelFile {
 
   const fit = root.fit === undefined || root.fit === null ? null : parseFitRecord(root.fit, `${source}: fit`, n, m);
   const model: HmmModel = { surfaces: surfaces.slice(), cells, structure, start, trans, emission };
+  if (root.movement !== undefined) {
+    const mv = asObject(root.movement, '"movement"', fail);
+    allowKeys(mv, ['stayLogit', 'stayPerMetre', 'kappa'], '"movement"', fail);
+    const num = (key: string, ok: (x: number) => boolean, requirement: string): number => {
+      const v = mv[key];
+      if (typeof v !== 'number' || !Number.isFinite(v) || !ok(v)) fail(`"movement".${key} must be ${requirement}, got ${quote(v)}`);
+      return v as number;
+    };
+    model.movement = {
+      stayLogit: num('stayLogit', () => true, 'a finite number'),
+      stayPerMetre: num('stayPerMetre', () => true, 'a finite number'),
+      kappa: num('kappa', (x) => x >= 0, 'a number >= 0'),
+    };
+  }
   return { name, model, fit };
 }
 

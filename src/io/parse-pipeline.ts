@@ -5,7 +5,7 @@ import { checkKeys } from './json-fields.js';
 import { PIPELINE_FORMAT, type PipelineFile } from './pipeline-file.js';
 
 const TOP_KEYS = ['format', 'floor', 'runs', 'columns', 'model', 'fit', 'compare', 'decode', 'out'];
-const COLUMN_KEYS = ['run', 'step', 'reading', 'unknownReadings'];
+const COLUMN_KEYS = ['run', 'step', 'reading', 'unknownReadings', 'movedCol', 'headingCol'];
 export const PIPELINE_FIT_KEYS = [
   'restarts', 'holdout', 'holdoutCol', 'seed', 'transitions', 'dwell', 'hit', 'priorStrength', 'transitionPriorStrength',
   'maxIter', 'tol', 'workers', 'finalPass', 'from',
@@ -50,7 +50,7 @@ export function parsePipeline(text: string, source: string): PipelineFile {
   if (root.columns !== undefined) {
     const c = object(root.columns, '"columns"', fail);
     keys(c, COLUMN_KEYS, '"columns"', fail);
-    for (const k of ['run', 'step', 'reading'] as const) {
+    for (const k of ['run', 'step', 'reading', 'movedCol', 'headingCol'] as const) {
       if (c[k] !== undefined && (typeof c[k] !== 'string' || !c[k])) fail(`"columns.${k}" must be a column name, got ${quote(c[k])}`);
     }
     if (c.unknownReadings !== undefined && c.unknownReadings !== 'error' && c.unknownReadings !== 'dropout') {

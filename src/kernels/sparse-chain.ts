@@ -1,3 +1,5 @@
+import type { MoveChain } from './move-chain.js';
+
 /**
  * The typed-array view of a hidden Markov model that every kernel reads. No model objects, no files.
  *
@@ -49,6 +51,11 @@ export interface SparseChain {
   outProb: Float64Array;
   /** CSR position of each `out` entry. */
   outPos: Int32Array;
+  /**
+   * Per-step transitions from odometry (`move-chain.ts`), present when the model has movement
+   * parameters; the movement kernels (`*-move-*.ts`) read it, the plain kernels ignore it.
+   */
+  move?: MoveChain;
 }
 
 /** Runs processed side by side by the lane kernels (`forwardLanes`, `backwardCountsLanes`, …). */

@@ -1,11 +1,20 @@
+import { linkBearings } from './link-bearings.js';
+import { moveChainFromModel } from './move-chain-from-model.js';
 import type { SparseChain } from '../kernels/sparse-chain.js';
-import type { HmmModel } from './hmm-model.js';
+import type { HmmModel, MovementParams } from './hmm-model.js';
 
 /**
  * The kernels' typed-array view of a model: CSC copy of the transitions, the dwell/link split of both
  * orders (see `SparseChain`), transposed emissions with a row of ones for dropouts.
  */
-export function chainFromModel(model: Pick<HmmModel, 'surfaces' | 'structure' | 'start' | 'trans' | 'emission'>): SparseChain {
+export function chainFromModel(
+  model: Pick<HmmModel, 'surfaces' | 'structure' | 'start' | 'trans' | 'emission'> & {
+    movement?: MovementParams;
+    cells?: HmmModel['cells'];
+    /** Link bearings (`linkBearings`), when the model comes without its cells (a worker's copy). */
+    linkBearing?: Float64Array;
+  },
+): SparseChain {
   const s = model.structure;
   const n = s.nCells;
   const m = model.surfaces.length;
@@ -57,7 +66,7 @@ export function chainFromModel(model: Pick<HmmModel, 'surfaces' | 'structure' | 
     }
     inPtr[j + 1] = q;
   }
-  return {
+  const chain: SparseChain = {
     nCells: n,
     nReadings: m,
     nnz: s.nnz,
@@ -80,4 +89,10 @@ export function chainFromModel(model: Pick<HmmModel, 'surfaces' | 'structure' | 
     outProb,
     outPos,
   };
+  if (model.movement) {
+    const bearings = model.linkBearing ?? (model.cells ? linkBearings(s, model.cells) : undefined);
+    if (!bearings) throw new RangeError('chainFromModel: a model with movement parameters needs its cells or link bearings');
+    chain.move = moveChainFromModel(chain, model.movement, bearings);
+  }
+  return chain;
 }

@@ -1,4 +1,5 @@
 import type { LoopRecord } from './fit-record.js';
+import type { MovementParams } from './hmm-model.js';
 
 /** Format marker of fit checkpoints. */
 export const CHECKPOINT_FORMAT = 'underfoot-fit-checkpoint/1';
@@ -8,6 +9,8 @@ export interface CheckpointParams {
   start: number[];
   trans: number[];
   emission: number[];
+  /** Movement parameters, when the fit uses odometry. */
+  movement?: MovementParams;
 }
 
 /** Where an interrupted loop stood after its last M-step. */

@@ -43,4 +43,20 @@ export interface HmmModel {
   trans: Float64Array;
   /** Emission table, cells × readings row-major; each row sums to 1. */
   emission: Float64Array;
+  /**
+   * Movement parameters (per-step transitions from wheel odometry, see `MovementParams`); absent for a
+   * model fitted without movement columns.
+   */
+  movement?: MovementParams;
+}
+
+/**
+ * How odometry shapes the transitions (DEVELOPERS.md, "Movement"): the chance of staying put after the
+ * wheels moved d metres is s(d) = σ(stayLogit − stayPerMetre · d) (logistic), and a link whose bearing
+ * is θ gets the weight exp(kappa · cos(h − θ)) (von Mises) when the heading of travel h is known.
+ */
+export interface MovementParams {
+  stayLogit: number;
+  stayPerMetre: number;
+  kappa: number;
 }

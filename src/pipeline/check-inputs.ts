@@ -17,6 +17,11 @@ export interface RunsCheck {
   longestRun: number;
   /** Readings per surface, in the floor's surface order. */
   readingCounts: Record<string, number>;
+  /**
+   * Wheel odometry, when the tables have it: the columns found and the transitions (steps after the
+   * first of a run) whose distance / heading is known.
+   */
+  odometry?: { movedCol: string | null; headingCol: string | null; knownDistance: number; knownHeading: number; transitions: number };
 }
 
 export interface CheckReport {
@@ -74,6 +79,20 @@ export async function checkInputs(floorPath: string, runPaths: string[], keys: K
       longestRun: longest,
       readingCounts,
     };
+    if (loaded.movement) {
+      let knownDistance = 0;
+      let knownHeading = 0;
+      let transitions = 0;
+      for (const run of loaded.runs) {
+        if (!run.moves) continue;
+        for (let t = 1; t < run.moves.dBin.length; t++) {
+          transitions++;
+          if (run.moves.dBin[t] >= 0) knownDistance++;
+          if (run.moves.hBin[t] >= 0) knownHeading++;
+        }
+      }
+      runs.odometry = { ...loaded.movement, knownDistance, knownHeading, transitions };
+    }
     const tiny = loaded.tables.reduce((k, table) => k + table.runs.filter((r) => r.nSteps < 2).length, 0);
     if (tiny) warnings.push(`${tiny} run(s) have a single step: they say little about movement`);
     if (gapSteps) warnings.push(`${gapSteps} step(s) are missing from the runs (gaps in "step"); they are decoded as dropouts`);

@@ -1,4 +1,7 @@
 import type { TransitionMode } from '../model/hmm-model.js';
+import type { MoveSteps } from '../kernels/move-chain.js';
+import type { SparseChain } from '../kernels/sparse-chain.js';
+import { forwardMoveSegment } from '../kernels/forward-move-segment.js';
 import { readFloor } from '../io/read-floor.js';
 import { readModel } from '../io/read-model.js';
 import { fileDigest } from '../io/file-digest.js';
@@ -100,7 +103,11 @@ export async function compareFromFiles(config: CompareConfig, onProgress?: (p: C
   const floor = await readFloor(config.floor);
   const old = await readModel(config.model);
   checkModelFloor(old.model, config.model, floor, config.floor);
-  const loaded = await loadRuns(config.runs, { surfaces: floor.surfaces, ...config.keys });
+  const withOdometry = await loadRuns(config.runs, { surfaces: floor.surfaces, ...config.keys });
+  // Odometry is used when the old model has movement parameters (held fixed: flooring does not change
+  // how the robot moves); otherwise it is read and checked, then ignored with a warning.
+  const useOdometry = withOdometry.movement !== null && old.model.movement !== undefined;
+  const loaded = useOdometry ? withOdometry : { ...withOdometry, runs: withOdometry.runs.map(({ moves: _moves, ...run }) => run) };
   const options: FitOptions = { ...config.fit, fromDigest: await fileDigest(config.model) };
   const floorDigest = await fileDigest(config.floor);
   // resolveCompareOptions admits only fixed, tied and learned (never auto).
@@ -115,7 +122,7 @@ export async function compareFromFiles(config: CompareConfig, onProgress?: (p: C
   // Each re-fit (of the new runs, then of every null draw) is the same search from the old model with
   // the prior centred on the old rows. Readings are then attributed to cells by the RE-FITTED model:
   // under the old model a changed cell's new readings would be credited to look-alike neighbours.
-  const refitOf = async (runs: ReadonlyArray<{ id: string; obs: Int32Array }>, draw: number) => {
+  const refitOf = async (runs: ReadonlyArray<{ id: string; obs: Int32Array; moves?: MoveSteps }>, draw: number) => {
     const packed = packRuns(runs, config.workers > 1);
     const blocks = toBlocks(runs.map((_, r) => r), options.blockSize);
     const engine: EStepEngine = config.workers > 1 ? new PoolEngine(packed, config.workers, { mode }) : new LocalEngine(packed, { mode });
@@ -172,7 +179,9 @@ export async function compareFromFiles(config: CompareConfig, onProgress?: (p: C
     nullDraws: config.nullDraws,
     options: config.compare,
     newFloor,
-    warnings: [...loaded.warnings, ...wasmFallbackWarning()],
+    warnings: withOdometry.movement && !useOdometry
+      ? [...loaded.warnings, ...wasmFallbackWarning(), `compare: the odometry columns (${[withOdometry.movement.movedCol, withOdometry.movement.headingCol].filter((c) => c).join(', ')}) are ignored: the old model has no movement parameters`]
+      : [...loaded.warnings, ...wasmFallbackWarning()],
   };
 }
 
@@ -239,14 +248,19 @@ function oldCountsT(file: ModelFile): Float64Array | null {
   return t;
 }
 
-function scoreShift(oldModel: HmmModel, newModel: HmmModel, runs: ReadonlyArray<{ id: string; obs: Int32Array }>): RunShift[] {
+function scoreShift(oldModel: HmmModel, newModel: HmmModel, runs: ReadonlyArray<{ id: string; obs: Int32Array; moves?: MoveSteps }>): RunShift[] {
   const a = chainFromModel(oldModel);
   const b = chainFromModel(newModel);
   const work = new Float64Array(2 * a.nCells);
+  const score = (chain: SparseChain, r: (typeof runs)[number]): number => {
+    if (!chain.move || !r.moves) return forwardScore(chain, r.obs, r.obs.length, work);
+    const T = r.obs.length;
+    return forwardMoveSegment(chain, chain.move, r.obs, r.moves, 0, T, new Float64Array((T + 1) * chain.nCells), new Float64Array(T), 0, work);
+  };
   return runs.map((r) => {
     let readings = 0;
     for (let t = 0; t < r.obs.length; t++) if (r.obs[t] >= 0) readings++;
-    return { run: r.id, readings, before: forwardScore(a, r.obs, r.obs.length, work), after: forwardScore(b, r.obs, r.obs.length, work) };
+    return { run: r.id, readings, before: score(a, r), after: score(b, r) };
   });
 }
 

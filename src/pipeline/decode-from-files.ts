@@ -56,8 +56,18 @@ export async function decodeFromFiles(config: DecodeConfig, preloaded?: ModelFil
   }
   const fitRuns = new Set(file.fit?.split.fit ?? []);
   const heldRuns = new Set(file.fit?.split.heldOut ?? []);
-  const decoded = decodeRuns(file.model, loaded.tables, config.thresholds, (run) => (heldRuns.has(run) ? 'held-out' : fitRuns.has(run) ? 'fit' : 'unseen'));
+  const movesByRun = new Map(loaded.runs.map((r) => [`${r.table}:${r.run}`, r.moves] as const));
+  const decoded = decodeRuns(
+    file.model,
+    loaded.tables,
+    config.thresholds,
+    (run) => (heldRuns.has(run) ? 'held-out' : fitRuns.has(run) ? 'fit' : 'unseen'),
+    (table, run) => movesByRun.get(`${table}:${run}`),
+  );
   const warnings = [...loaded.warnings];
+  if (loaded.movement && !file.model.movement) {
+    warnings.push(`decode: the odometry columns (${[loaded.movement.movedCol, loaded.movement.headingCol].filter((c) => c).join(', ')}) are ignored: the model has no movement parameters (fit it with them, --transitions tied or fixed)`);
+  }
   if (decoded.impossibleRuns.length) {
     warnings.push(`${decoded.impossibleRuns.length} run(s) are impossible under the model and were not decoded: ${decoded.impossibleRuns.slice(0, 10).join(', ')}`);
   }

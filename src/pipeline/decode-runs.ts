@@ -1,3 +1,5 @@
+import { decodeMoveRun } from '../decode/decode-move-run.js';
+import type { MoveSteps } from '../kernels/move-chain.js';
 import type { HmmModel } from '../model/hmm-model.js';
 import { chainFromModel } from '../model/chain-from-model.js';
 import { logChain } from '../decode/log-chain.js';
@@ -25,7 +27,14 @@ export interface DecodedTables {
  * appear in the summary's counts only (`gap_steps`). The zone and position columns come after the
  * contract's first columns (`position-columns.ts`); zone columns are empty when the model has no zones.
  */
-export function decodeRuns(model: HmmModel, tables: RunsTable[], th: DecodeThresholds, splitOf: (run: string) => string): DecodedTables {
+export function decodeRuns(
+  model: HmmModel,
+  tables: RunsTable[],
+  th: DecodeThresholds,
+  splitOf: (run: string) => string,
+  /** Odometry bins of run `run` of table `table`, when the runs carry movement columns. */
+  movesOf?: (table: number, run: number) => MoveSteps | undefined,
+): DecodedTables {
   const chain = chainFromModel(model);
   const log = logChain(chain);
   const layout = positionLayout(model);
@@ -46,9 +55,10 @@ export function decodeRuns(model: HmmModel, tables: RunsTable[], th: DecodeThres
   const summaries: DecodedTables['summaries'] = [];
   const impossibleRuns: string[] = [];
   let base = 0;
-  for (const table of tables) {
-    for (const run of table.runs) {
-      const dec = decodeRun(chain, log, run.obs, { positions: layout.groups });
+  for (const [ti, table] of tables.entries()) {
+    for (const [ri, run] of table.runs.entries()) {
+      const moves = chain.move ? movesOf?.(ti, ri) : undefined;
+      const dec = moves ? decodeMoveRun(chain, log, run.obs, moves, { positions: layout.groups }) : decodeRun(chain, log, run.obs, { positions: layout.groups });
       const stepFlags = new Uint8Array(run.obs.length);
       const summary = summarizeRun(run.obs, dec, th, stepFlags);
       summaries.push({ run: run.id, split: splitOf(run.id), ...summary, ...summarizeZones(run.rows, dec, th, layout.hasZones) });

@@ -62,6 +62,7 @@ export async function fitFromFiles(config: FitConfig, onProgress?: (p: FitProgre
       floorDigest: await fileDigest(config.floor),
       runsDigests: loaded.digests,
       warmStart,
+      movement: loaded.movement !== null,
     },
     options,
     config.workers,
@@ -70,5 +71,9 @@ export async function fitFromFiles(config: FitConfig, onProgress?: (p: FitProgre
   );
   const file: ModelFile = { name: floor.name, model: withFloorZones(result.model, floor), fit: result.record };
   await writeFileAtomic(config.out, formatModel(file));
-  return { file, warnings: [...loaded.warnings, ...wasmFallbackWarning()], nRuns: loaded.runs.length };
+  const warnings = [...loaded.warnings, ...wasmFallbackWarning()];
+  if (loaded.movement && options.transitions !== 'tied' && options.transitions !== 'fixed' && options.transitions !== 'auto') {
+    warnings.push(`fit: the odometry columns (${[loaded.movement.movedCol, loaded.movement.headingCol].filter((c) => c).join(', ')}) are ignored with --transitions ${options.transitions}; only tied and fixed use them`);
+  }
+  return { file, warnings, nRuns: loaded.runs.length };
 }

@@ -4,6 +4,9 @@ export interface KeyColumns {
   stepCol: string;
   readingCol: string;
   unknownReadings: 'error' | 'dropout';
+  /** Odometry columns (`--moved-col`, `--heading-col`); absent = the default names, used when present. */
+  movedCol?: string;
+  headingCol?: string;
 }
 
 export const DEFAULT_KEY_COLUMNS: KeyColumns = { runCol: 'run', stepCol: 'step', readingCol: 'reading', unknownReadings: 'error' };

@@ -38,6 +38,8 @@ export async function runPipeline(
     stepCol: p.columns.step ?? DEFAULT_KEY_COLUMNS.stepCol,
     readingCol: p.columns.reading ?? DEFAULT_KEY_COLUMNS.readingCol,
     unknownReadings: p.columns.unknownReadings ?? 'error',
+    ...(p.columns.movedCol ? { movedCol: p.columns.movedCol } : {}),
+    ...(p.columns.headingCol ? { headingCol: p.columns.headingCol } : {}),
   };
   const fitOpts = p.fit ? resolveFitOptions({ ...p.fit, ...(overrides.workers ? { workers: overrides.workers } : {}) }, p.source, (k) => `"fit.${k}"`) : null;
   const compareOpts = p.compare

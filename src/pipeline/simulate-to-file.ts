@@ -1,3 +1,4 @@
+import { sampleOdometry } from '../model/sample-odometry.js';
 import { readFloor } from '../io/read-floor.js';
 import { readModel } from '../io/read-model.js';
 import { writeTable } from '../io/write-table.js';
@@ -23,6 +24,11 @@ export interface SimulateConfig {
   dropoutRate: number;
   /** Probability that a step is lost entirely (its row is missing: a gap in `step`). */
   gapRate: number;
+  /** Write odometry columns even when the model has no movement parameters. @default false */
+  odometry?: boolean;
+  /** Names of the odometry columns. @default 'moved', 'heading' */
+  movedCol?: string;
+  headingCol?: string;
 }
 
 export interface SimulateOutcome {
@@ -56,15 +62,30 @@ export async function simulateToFile(config: SimulateConfig): Promise<SimulateOu
   const stepCol: number[] = [];
   const readingCol: Array<string | null> = [];
   const cellCol: string[] = [];
+  // Odometry (when asked for, or when the model has movement parameters) from its own generator, so
+  // that the walk and readings are those of the same seed without odometry.
+  const withOdometry = config.odometry === true || model.movement !== undefined;
+  const odometryRng = new SeededRandom((config.seed ^ 0x6f646f6d) >>> 0);
+  const movedCol: Array<number | null> = [];
+  const headingCol: Array<number | null> = [];
   let nDropouts = 0;
   let nGaps = 0;
   for (let r = 0; r < config.runs; r++) {
     const id = `sim-${String(r + 1).padStart(Math.max(3, width), '0')}`;
     const { cells, obs } = sampleRun(model, config.steps, rng, config.dropoutRate);
+    const odometry = withOdometry ? sampleOdometry(model, cells, odometryRng) : null;
+    let carried = 0;
     for (let t = 0; t < config.steps; t++) {
+      if (odometry) carried += odometry.moved[t];
       if (t > 0 && config.gapRate > 0 && rng.next() < config.gapRate) {
         nGaps++;
         continue;
+      }
+      if (odometry) {
+        // The row after lost steps carries the distance since the previous row, and the last heading.
+        movedCol.push(Math.round(carried * 1000) / 1000);
+        headingCol.push(Number.isNaN(odometry.heading[t]) ? null : Math.round(odometry.heading[t] * 10) / 10 % 360);
+        carried = 0;
       }
       runCol.push(id);
       stepCol.push(t);
@@ -79,6 +100,12 @@ export async function simulateToFile(config: SimulateConfig): Promise<SimulateOu
       { name: 'run', kind: 'utf8', get: (i) => runCol[i] },
       { name: 'step', kind: 'int32', get: (i) => stepCol[i] },
       { name: 'reading', kind: 'utf8', get: (i) => readingCol[i] },
+      ...(withOdometry
+        ? ([
+            { name: config.movedCol ?? 'moved', kind: 'float64', get: (i: number) => movedCol[i] },
+            { name: config.headingCol ?? 'heading', kind: 'float64', get: (i: number) => headingCol[i] },
+          ] as OutputTable['columns'])
+        : []),
       { name: 'true_cell', kind: 'utf8', get: (i) => cellCol[i] },
     ],
   };

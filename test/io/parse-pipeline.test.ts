@@ -35,3 +35,13 @@ describe('parsePipeline: the compare section (re-fit after flooring changes)', (
     });
   }
 });
+
+describe('parsePipeline: odometry columns', () => {
+  it('"columns" takes movedCol and headingCol (the --moved-col / --heading-col options)', () => {
+    const p = parse({ ...base, columns: { movedCol: 'odo_m', headingCol: 'odo_deg' } });
+    expect(p.columns).toEqual({ movedCol: 'odo_m', headingCol: 'odo_deg' });
+  });
+  it('an empty odometry column name is one clear error', () => {
+    expect(() => parse({ ...base, columns: { movedCol: '' } })).toThrow('"columns.movedCol" must be a column name, got ""');
+  });
+});
