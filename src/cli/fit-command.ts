@@ -20,7 +20,7 @@ export function registerFit(program: Command, io: CliIo): void {
     .option('--holdout <f>', 'fraction of runs held out (whole runs) to choose the restart', '0.2')
     .option('--holdout-col <col>', 'column whose value "held-out" marks held-out runs (instead of --holdout)')
     .option('--seed <s>', 'master seed', '1')
-    .option('--transitions <mode>', 'auto | fixed | tied | per-cell | learned; auto fits fixed, tied, per-cell and learned (restarts shared out among them, at least one each) and keeps the best held-out', 'auto')
+    .option('--transitions <mode>', 'auto | fixed | tied | per-cell | learned; auto fits fixed, tied, per-cell and learned (only fixed and tied when the runs carry odometry; restarts shared out among them, at least one each) and keeps the best held-out', 'auto')
     .option('--dwell <d>', 'starting (or fixed) dwell probability', '0.5')
     .option('--hit <p>', 'prior probability that a cell reads as its surveyed surface', '0.8')
     .option('--prior-strength <w>', 'pseudo-readings per cell behind the survey prior (0 = maximum likelihood)', '10')
