@@ -1,7 +1,7 @@
 import type { Command } from 'commander';
 import type { CompareConfig, CompareOutcome } from '../pipeline/compare-from-files.js';
 import { DEFAULT_NULL_DRAWS, resolveCompareOptions } from '../pipeline/resolve-compare-options.js';
-import { DEFAULT_REFIT_SEARCH } from '../compare/search-refit.js';
+import { DEFAULT_REFIT_SEARCH } from '../pipeline/cli-surface.js';
 import { addKeyColumnOptions, addOutputOptions, keyColumnsFrom } from './common-options.js';
 import type { CliIo } from './cli-io.js';
 import { compareProgress } from './progress.js';

@@ -1,6 +1,6 @@
 import type { Command } from 'commander';
 import { decodeFromFiles, type DecodeConfig, type DecodeOutcome } from '../pipeline/decode-from-files.js';
-import { DEFAULT_THRESHOLDS } from '../decode/decode-thresholds.js';
+import { DEFAULT_THRESHOLDS } from '../pipeline/cli-surface.js';
 import { addKeyColumnOptions, addOutputOptions, keyColumnsFrom, numberOption } from './common-options.js';
 import type { CliIo } from './cli-io.js';
 import { SAFETY_NOTE } from './safety-note.js';

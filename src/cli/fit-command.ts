@@ -1,7 +1,7 @@
 import type { Command } from 'commander';
 import { fitFromFiles, type FitConfig } from '../pipeline/fit-from-files.js';
 import { resolveFitOptions } from '../pipeline/resolve-fit-options.js';
-import type { ModelFile } from '../io/model-file.js';
+import type { ModelFile } from '../pipeline/cli-surface.js';
 import { addKeyColumnOptions, addOutputOptions, keyColumnsFrom } from './common-options.js';
 import type { CliIo } from './cli-io.js';
 import { fitProgress } from './progress.js';

@@ -1,4 +1,4 @@
-import type { FitProgress } from '../fit/fit-model.js';
+import type { FitProgress } from '../pipeline/cli-surface.js';
 import type { CompareProgress } from '../pipeline/compare-from-files.js';
 import type { CliIo } from './cli-io.js';
 

@@ -1,6 +1,6 @@
 import type { Command } from 'commander';
 import type { ReportConfig, ReportOutcome } from '../pipeline/report-to-file.js';
-import { DEFAULT_AMBIGUITY_OPTIONS, type AmbiguityOptions } from '../report/estimate-ambiguity.js';
+import { DEFAULT_AMBIGUITY_OPTIONS, type AmbiguityOptions } from '../pipeline/cli-surface.js';
 import { addKeyColumnOptions, addOutputOptions, keyColumnsFrom, numberOption } from './common-options.js';
 import type { CliIo } from './cli-io.js';
 import { SAFETY_NOTE } from './safety-note.js';

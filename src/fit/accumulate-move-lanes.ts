@@ -2,32 +2,12 @@ import { LANES, type SparseChain } from '../kernels/sparse-chain.js';
 import { HEADING_BINS } from '../kernels/move-chain.js';
 import { fillLaneGroup } from '../kernels/fill-lane-group.js';
 import { segmentSteps } from '../kernels/segment-steps.js';
-import { forwardMoveLanes, type MoveLaneGroup } from '../kernels/forward-move-lanes.js';
-import { backwardMoveLanes, type MoveLaneAccumulators } from '../kernels/backward-move-lanes.js';
+import { forwardMoveLanes } from '../kernels/forward-move-lanes.js';
+import { backwardMoveLanes } from '../kernels/backward-move-lanes.js';
+import { MoveLaneBuffers } from './move-lane-buffers.js';
 import type { ExpectedCountsTable } from '../model/expected-counts-table.js';
 import type { EStepWorkspace } from './e-step-workspace.js';
 import { moveStepsOf, type PackedRuns } from './packed-runs.js';
-
-/** Buffers of the movement lane kernels, grown on demand and never shrunk (one set per workspace). */
-export class MoveLaneBuffers {
-  table: Float64Array = new Float64Array(0);
-  scale: Float64Array = new Float64Array(0);
-  w: Float64Array = new Float64Array(0);
-  wSpare: Float64Array = new Float64Array(0);
-  work: Float64Array = new Float64Array(0);
-  moves: MoveLaneGroup = { dBin: new Int32Array(0), hBin: new Int32Array(0) };
-  acc: MoveLaneAccumulators = {
-    emitCount: new Float64Array(0),
-    startCount: new Float64Array(0),
-    dwellCount: new Float64Array(0),
-    moveCount: new Float64Array(0),
-    stayByDistance: new Float64Array(0),
-    moveByDistance: new Float64Array(0),
-    moveByHeading: new Float64Array(0),
-    headingCos: new Float64Array(0),
-    headingSin: new Float64Array(0),
-  };
-}
 
 /**
  * `accumulateLanes` for runs with odometry under a chain with movement tables: up to `LANES` runs

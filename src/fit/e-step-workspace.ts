@@ -1,4 +1,4 @@
-import type { MoveLaneBuffers } from './accumulate-move-lanes.js';
+import type { MoveLaneBuffers } from './move-lane-buffers.js';
 import { LANES, type LaneGroup, type SparseChain } from '../kernels/sparse-chain.js';
 import type { LaneAccumulators, LaneKernels } from '../kernels/lane-kernels.js';
 import { JsLaneKernels } from '../kernels/js-lane-kernels.js';

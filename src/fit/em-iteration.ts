@@ -12,13 +12,8 @@ import { EStepWorkspace } from './e-step-workspace.js';
 import { packRuns } from './packed-runs.js';
 import { reduceBlocks } from './reduce-blocks.js';
 
-/** A run as the fitting code sees it: its id (for messages) and its reading codes (−1 = dropout). */
-export interface RunReadings {
-  id: string;
-  obs: Int32Array;
-  /** Odometry bins (`moveStepsFromOdometry`), used when the model has movement parameters. */
-  moves?: MoveSteps;
-}
+export type { RunReadings } from './run-readings.js';
+import type { RunReadings } from './run-readings.js';
 
 export interface EmIterationResult {
   /** The updated model (M-step output). */

@@ -10,17 +10,8 @@ import type { PackedRuns } from './packed-runs.js';
 import type { StopReason } from './fit-record.js';
 import { reduceBlocks } from './reduce-blocks.js';
 
-export interface EmLoopOptions {
-  mode: TransitionMode;
-  priorStrength: number;
-  prior: Float64Array;
-  maxIter: number;
-  tol: number;
-  /** Pseudo-transitions per cell behind the transition prior (`learned`, `per-cell`). @default 0 */
-  transitionPriorStrength?: number;
-  /** Centre of the transition prior, CSR order (the floor's movement model). */
-  transitionCentre?: Float64Array;
-}
+export type { EmLoopOptions } from './em-loop-options.js';
+import type { EmLoopOptions } from './em-loop-options.js';
 
 /** Where a loop stands after an M-step: enough to continue it exactly (checkpoints). */
 export interface EmLoopState {

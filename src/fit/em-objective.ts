@@ -3,7 +3,7 @@ import type { ExpectedCountsTable } from '../model/expected-counts-table.js';
 import { emissionLogPrior } from '../model/emission-log-prior.js';
 import { transitionLogPrior } from '../model/transition-log-prior.js';
 import type { MaximizeOptions } from '../model/maximize-model.js';
-import type { EmLoopOptions } from './em-loop.js';
+import type { EmLoopOptions } from './em-loop-options.js';
 
 /**
  * The EM objective of `model` whose E-step gave `counts`: log-likelihood + emission log prior +

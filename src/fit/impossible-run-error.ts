@@ -2,7 +2,7 @@ import type { HmmModel } from '../model/hmm-model.js';
 import { chainFromModel } from '../model/chain-from-model.js';
 import { forwardScore } from '../kernels/forward-score.js';
 import { WorkError } from '../errors.js';
-import type { RunReadings } from './em-iteration.js';
+import type { RunReadings } from './run-readings.js';
 
 /** The error for a run with probability zero under the model, naming the step where it became impossible. */
 export function impossibleRunError(model: HmmModel, run: RunReadings): WorkError {

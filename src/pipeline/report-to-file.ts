@@ -12,7 +12,7 @@ import { checkModelFloor } from '../model/check-model-floor.js';
 import { withFloorZones } from '../model/with-floor-zones.js';
 import type { AmbiguityOptions } from '../report/estimate-ambiguity.js';
 import type { ReportData } from '../report/report-data.js';
-import { columnsFromBytes } from '../report/columns-from-bytes.js';
+import { columnsFromBytes } from '../io/columns-from-bytes.js';
 import { runRowsFromTable } from '../report/run-rows-from-table.js';
 import { changeRowsFromTable } from '../report/change-rows-from-table.js';
 import { buildReportData } from '../report/build-report-data.js';

@@ -1,5 +1,5 @@
 import { InputError, quote } from '../errors.js';
-import type { Cell, NamedColumns } from './columns-from-bytes.js';
+import type { Cell, NamedColumns } from '../io/columns-from-bytes.js';
 
 /** The column `name` of a table that must have it (`what` names the table in the message). */
 export function requiredColumn(table: NamedColumns, name: string, what: string): (row: number) => Cell {

@@ -1,5 +1,5 @@
 import { InputError, quote } from '../errors.js';
-import type { NamedColumns } from './columns-from-bytes.js';
+import type { NamedColumns } from '../io/columns-from-bytes.js';
 import type { RunRow } from './report-data.js';
 import { requiredColumn } from './required-column.js';
 import { numericValue } from './numeric-value.js';

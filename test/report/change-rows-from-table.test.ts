@@ -1,6 +1,6 @@
 import { describe, it, expect } from 'vitest';
 import { changeRowsFromTable } from '../../src/report/change-rows-from-table.js';
-import { columnsFromBytes } from '../../src/report/columns-from-bytes.js';
+import { columnsFromBytes } from '../../src/io/columns-from-bytes.js';
 
 const read = (csv: string, cells = ['a', 'b', 'c']) => changeRowsFromTable(columnsFromBytes(new TextEncoder().encode(csv), 'csv', 'changes.csv'), cells);
 const HEADER = 'cell,surface_before,surface_after,expected_readings,tv_distance,g_stat,p_value,q_value,verdict';

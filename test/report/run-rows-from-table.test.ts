@@ -1,6 +1,6 @@
 import { describe, it, expect } from 'vitest';
 import { runRowsFromTable } from '../../src/report/run-rows-from-table.js';
-import { columnsFromBytes } from '../../src/report/columns-from-bytes.js';
+import { columnsFromBytes } from '../../src/io/columns-from-bytes.js';
 import { tableToArrowBytes } from '../../src/io/table-to-arrow-bytes.js';
 import type { OutputTable } from '../../src/io/output-table.js';
 

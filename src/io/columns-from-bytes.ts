@@ -1,8 +1,8 @@
 import { tableFromIPC, type Vector } from 'apache-arrow';
 import { InputError, quote } from '../errors.js';
-import { decodeUtf8 } from '../io/decode-utf8.js';
-import { parseCsv } from '../io/parse-csv.js';
-import type { TableFormat } from '../io/table-format-of.js';
+import { decodeUtf8 } from './decode-utf8.js';
+import { parseCsv } from './parse-csv.js';
+import type { TableFormat } from './table-format-of.js';
 
 export type Cell = string | number | bigint | boolean | null;
 

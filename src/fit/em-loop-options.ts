@@ -1,0 +1,14 @@
+import type { TransitionMode } from '../model/hmm-model.js';
+
+/** What one EM loop fits and when it stops (mode, priors, iteration limit, tolerance). */
+export interface EmLoopOptions {
+  mode: TransitionMode;
+  priorStrength: number;
+  prior: Float64Array;
+  maxIter: number;
+  tol: number;
+  /** Pseudo-transitions per cell behind the transition prior (`learned`, `per-cell`). @default 0 */
+  transitionPriorStrength?: number;
+  /** Centre of the transition prior, CSR order (the floor's movement model). */
+  transitionCentre?: Float64Array;
+}
