@@ -1,3 +1,4 @@
+import { nonNegative, unitInterval } from './tidy-number.js';
 import { decodeMoveRun } from '../decode/decode-move-run.js';
 import type { MoveSteps } from '../kernels/move-chain.js';
 import type { HmmModel } from '../model/hmm-model.js';
@@ -69,18 +70,18 @@ export function decodeRuns(
         if (row < 0) continue;
         const g = base + row;
         pathCell[g] = dec.path[t];
-        pathP[g] = dec.pathP[t];
+        pathP[g] = unitInterval(dec.pathP[t]);
         likelyCell[g] = dec.likelyCell[t];
-        likelyP[g] = dec.likelyP[t];
-        entropy[g] = dec.entropyBits[t];
-        surprise[g] = dec.surpriseBits[t];
+        likelyP[g] = unitInterval(dec.likelyP[t]);
+        entropy[g] = nonNegative(dec.entropyBits[t]);
+        surprise[g] = nonNegative(dec.surpriseBits[t]);
         flags[g] = stepFlags[t];
         likelyZone[g] = pos.likelyZone[t];
-        zoneP[g] = pos.zoneP[t];
+        zoneP[g] = unitInterval(pos.zoneP[t]);
         meanLevel[g] = pos.meanLevel[t];
         meanX[g] = pos.meanX[t];
         meanY[g] = pos.meanY[t];
-        spread[g] = pos.spreadM[t];
+        spread[g] = nonNegative(pos.spreadM[t]);
       }
     }
     base += table.nRows;
@@ -124,11 +125,11 @@ export function decodeRuns(
       { name: 'loglik', kind: 'float64', get: (r) => finite(summaries[r].loglik) },
       { name: 'loglik_per_reading', kind: 'float64', get: (r) => finite(summaries[r].loglikPerReading) },
       { name: 'path_logprob', kind: 'float64', get: (r) => finite(summaries[r].pathLogprob) },
-      { name: 'mean_path_p', kind: 'float64', get: (r) => finite(summaries[r].meanPathP) },
+      { name: 'mean_path_p', kind: 'float64', get: (r) => finite(unitInterval(summaries[r].meanPathP)) },
       { name: 'low_confidence_steps', kind: 'int32', get: (r) => summaries[r].lowConfidenceSteps },
       { name: 'surprising_steps', kind: 'int32', get: (r) => summaries[r].surprisingSteps },
       { name: 'gap_steps', kind: 'int32', get: (r) => summaries[r].gapSteps },
-      { name: 'mean_zone_p', kind: 'float64', get: (r) => finite(summaries[r].meanZoneP) },
+      { name: 'mean_zone_p', kind: 'float64', get: (r) => finite(unitInterval(summaries[r].meanZoneP)) },
       { name: 'low_confidence_zone_steps', kind: 'int32', get: (r) => (layout.hasZones ? summaries[r].lowConfidenceZoneSteps : null) },
     ],
   };

@@ -20,4 +20,22 @@ describe('decodeRuns(model, tables)', () => {
     const out = decodeRuns(buildModel(floor), [table], { lowConfidence: 0.5, surprisingBits: 6 }, () => 'unseen');
     expect(out.annotated.columns.find((c) => c.name === 'step')!.kind).toBe('int32');
   });
+  it('writes probabilities within [0, 1] and entropies, surprises and spreads ≥ 0 (float overshoot clamped)', () => {
+    // A floor whose cells all read alike: every posterior sums many equal terms, the case that overshoots.
+    const flat = gridFloor(6, 4, ['oak', 'tile'], () => 0);
+    const lines = ['run,step,reading'];
+    for (let t = 0; t < 400; t++) lines.push(`r1,${t},${t % 7 === 0 ? 'tile' : 'oak'}`);
+    const table = runsFromCsv(lines.join('\n') + '\n', 'runs.csv', { surfaces: flat.surfaces });
+    const out = decodeRuns(buildModel(flat, { dwell: 0.9, hit: 0.8 }), [table], { lowConfidence: 0.5, surprisingBits: 6 }, () => 'fit');
+    const col = (name: string) => out.annotated.columns.find((c) => c.name === name)!;
+    for (const name of ['path_p', 'likely_p', 'entropy_bits', 'surprise_bits', 'spread_m']) {
+      for (let row = 0; row < out.annotated.nRows; row++) {
+        const v = col(name).get(row) as number | null;
+        if (v === null) continue;
+        expect(v, `${name} row ${row}`).toBeGreaterThanOrEqual(0);
+        if (name.endsWith('_p')) expect(v, `${name} row ${row}`).toBeLessThanOrEqual(1);
+      }
+    }
+  });
 });
+
