@@ -84,6 +84,20 @@ export function analyzeFloor(floor: FloorGraph): FloorAnalysis {
     warnings.push(`${unreachable.length} of ${nCells} cells cannot be reached from any start cell: ${listIds(unreachable)}`);
   }
 
+  // Two cells at one position on one level: a survey slip (a copied row), and decoded coordinates there
+  // cannot tell the cells apart.
+  const at = new Map<string, string>();
+  const shared: string[] = [];
+  for (const cell of floor.cells) {
+    const key = `${cell.level}:${cell.x}:${cell.y}`;
+    const first = at.get(key);
+    if (first === undefined) at.set(key, cell.id);
+    else shared.push(`${JSON.stringify(first)} and ${JSON.stringify(cell.id)} at (${cell.x}, ${cell.y}) on level ${cell.level}`);
+  }
+  if (shared.length > 0) {
+    warnings.push(`${shared.length} cell(s) share a position with another cell: ${shared.slice(0, 5).join('; ')}${shared.length > 5 ? `; and ${shared.length - 5} more` : ''}`);
+  }
+
   const zoneAnalysis = analyzeZones(floor);
   warnings.push(...zoneAnalysis.warnings);
 
