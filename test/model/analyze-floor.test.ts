@@ -138,4 +138,12 @@ describe('analyzeFloor(floor)', () => {
       '12 of 14 cells cannot be reached from any start cell: "q0", "q1", "q2", "q3", "q4", "q5", "q6", "q7", "q8", "q9" and 2 more',
     ]);
   });
+
+  it('analyzeFloor(floor) warns about two cells at one position on one level, not across levels', () => {
+    const base = floor([['A', 'tile', 0, true], ['B', 'tile', 0], ['C', 'rubber', 1]], [['A', 'B'], ['B', 'C']]);
+    // A and B surveyed at the same spot (a copied row); C is above A on another level (a lift): fine.
+    const cells = base.cells.map((c) => (c.id === 'B' ? { ...c, x: 0 } : c.id === 'C' ? { ...c, x: 0 } : c));
+    const result = analyzeFloor({ ...base, cells });
+    expect(result.warnings).toEqual(['1 cell(s) share a position with another cell: "A" and "B" at (0, 0) on level 0']);
+  });
 });
