@@ -100,7 +100,7 @@ if (WasmLaneKernels.available()) {
 }
 
 const times = new Map<string, number[]>();
-for (const [label, fn] of rows) fn(); // warm-up
+for (const [, fn] of rows) fn(); // warm-up
 for (let k = 0; k < repeats; k++) {
   for (const [label, fn] of rows) {
     const t0 = process.hrtime.bigint();

@@ -28,7 +28,6 @@ export function accumulateMoveLanes(
   const move = chain.move!;
   const n = chain.nCells;
   const m = chain.nReadings;
-  const nLinks = chain.outPtr[n];
   const row = LANES * n;
   const obs = runs.map((r) => packed.obs.subarray(packed.offsets[r], packed.offsets[r + 1]));
   const group = fillLaneGroup(obs, n, m, ws.group);

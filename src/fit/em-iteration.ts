@@ -1,4 +1,3 @@
-import type { MoveSteps } from '../kernels/move-chain.js';
 import { maximizeMovement } from '../model/maximize-movement.js';
 import { marginalDwell } from '../model/marginal-dwell.js';
 import type { HmmModel } from '../model/hmm-model.js';

@@ -1,4 +1,4 @@
-import type { HmmModel, TransitionMode } from '../model/hmm-model.js';
+import type { HmmModel } from '../model/hmm-model.js';
 import type { ExpectedCountsTable } from '../model/expected-counts-table.js';
 import { maximizeMovement } from '../model/maximize-movement.js';
 import { marginalDwell } from '../model/marginal-dwell.js';

@@ -230,13 +230,6 @@ function nullDrawSeed(seed: number, b: number): number {
   return (Math.imul(seed + 1, 0x9e3779b1) + b) >>> 0;
 }
 
-/** Expected readings per cell (cells × readings, as recorded) → readings × cells. */
-function countsT(rows: number[][], n: number, m: number): Float64Array {
-  const t = new Float64Array(n * m);
-  rows.forEach((row, i) => row.forEach((v, r) => (t[r * n + i] = v)));
-  return t;
-}
-
 /** The old fit's expected readings (readings × cells), when the model file recorded them. */
 function oldCountsT(file: ModelFile): Float64Array | null {
   const rows = file.fit?.cellReadings;

@@ -1,7 +1,7 @@
 import { describe, it, expect, beforeAll, afterAll } from 'vitest';
 import { spawn, spawnSync } from 'node:child_process';
 import { createHash } from 'node:crypto';
-import { createWriteStream, linkSync, mkdirSync, readdirSync, readFileSync, statSync, symlinkSync, writeFileSync, copyFileSync, lstatSync } from 'node:fs';
+import { createWriteStream, linkSync, mkdirSync, readdirSync, readFileSync, statSync, symlinkSync, writeFileSync, lstatSync } from 'node:fs';
 import { join } from 'node:path';
 import { Int32, Table, Utf8, tableFromArrays, tableToIPC, vectorFromArray } from 'apache-arrow';
 import { BIN, runCli, tempDir, type CliResult } from '../helpers/run-cli.js';
