@@ -10,8 +10,9 @@
  * Both read the model and runs as text on stdin and time only their library calls. Neither knows
  * dropouts, so a dropout is passed as an extra symbol whose emission probability is 1 in every state —
  * exactly what a dropout means — which keeps their log-likelihood equal to underfoot's. Both are run
- * with the allocator settings of /work/shared/STACK.md (without them their per-step temporary
- * allocations churn page faults and they run 2–4× slower than they can) and one BLAS thread.
+ * with the allocator settings of DEVELOPERS.md, "Reference libraries and peers" (without them their
+ * per-step temporary allocations churn page faults and they run 2–4× slower than they can) and one
+ * BLAS thread.
  */
 import { spawnSync } from 'node:child_process';
 import { existsSync, mkdtempSync, rmSync } from 'node:fs';

@@ -1,5 +1,5 @@
 /**
- * The two kinds of error the tool reports (HOUSE-STYLE.md): bad input or usage (exit 2) and failure
+ * The two kinds of error the tool reports (DEVELOPERS.md, "Errors"): bad input or usage (exit 2) and failure
  * while working (exit 1). Messages follow "<where>: <thing> must <requirement>, got <actual>" and are
  * one line; the CLI prints only the message unless `--debug` is given.
  */

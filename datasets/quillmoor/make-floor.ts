@@ -1,6 +1,6 @@
 /**
  * Generates the demo building "Quillmoor Arts Centre" — an invented two-level arts centre, not a real
- * place — as `floor.json` (`underfoot-floor/1`, see the product contract (shared/CONTRACT.md)) and the invented sensor
+ * place — as `floor.json` (`underfoot-floor/1`, see docs/formats.md, "Floor file") and the invented sensor
  * confusion table `sensor-confusion.json`, both next to this script.
  *
  *     npx tsx datasets/quillmoor/make-floor.ts

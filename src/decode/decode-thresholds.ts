@@ -1,4 +1,4 @@
-/** When a decoded step is flagged (CONTRACT.md `flag`). */
+/** When a decoded step is flagged (docs/formats.md, "Annotated table", `flag`). */
 export interface DecodeThresholds {
   /** A step whose path cell has posterior below this is `low-confidence`. @default 0.5 */
   lowConfidence: number;

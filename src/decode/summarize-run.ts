@@ -1,7 +1,7 @@
 import type { DecodedRun } from './decode-run.js';
 import type { DecodeThresholds } from './decode-thresholds.js';
 
-/** One run's row of the run summary (CONTRACT.md), less its id and split. */
+/** One run's row of the run summary (docs/formats.md, "Run summary"), less its id and split. */
 export interface RunSummary {
   steps: number;
   dropouts: number;

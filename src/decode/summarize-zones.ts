@@ -1,7 +1,7 @@
 import type { DecodedRun } from './decode-run.js';
 import type { DecodeThresholds } from './decode-thresholds.js';
 
-/** The run summary's zone columns and gap count (CONTRACT.md additions). */
+/** The run summary's zone columns and gap count (docs/formats.md, "Run summary"). */
 export interface ZoneSummary {
   /** Steps missing from the input (gaps in `step`), decoded as dropouts. */
   gapSteps: number;

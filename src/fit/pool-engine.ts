@@ -45,7 +45,7 @@ export class PoolEngine implements EStepEngine {
     options: EngineOptions = {},
   ) {
     this.mode = options.mode ?? 'learned';
-    // Under tsx/vitest this file is TypeScript: the worker needs the tsx loader (see STACK.md).
+    // Under tsx/vitest this file is TypeScript: the worker needs the tsx loader (DEVELOPERS.md, "Reference libraries and peers").
     const ts = import.meta.url.endsWith('.ts');
     const threads = Math.max(0, workers - 1);
     this.pool =

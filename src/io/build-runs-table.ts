@@ -61,7 +61,7 @@ function describeValue(value: unknown): string {
 }
 
 /**
- * Turns rows into runs (CONTRACT.md, "Runs table"): rows grouped by run (runs in order of first
+ * Turns rows into runs (docs/formats.md, "Runs table"): rows grouped by run (runs in order of first
  * appearance), each run's rows sorted by step (stable), readings coded by their index in
  * `options.surfaces`. Empty/null readings and steps missing between the first and last step are
  * DROPOUT. Errors (InputError, one line naming the file, run and step or line): an empty table, an empty

@@ -5,7 +5,7 @@ import { parseJsonDocument } from './parse-json-document.js';
 import { checkKeys, got, isObject, isWellFormedText } from './json-fields.js';
 
 /**
- * Parses and validates an `underfoot-floor/1` file (CONTRACT.md, "Floor file"). Every problem is one
+ * Parses and validates an `underfoot-floor/1` file (docs/formats.md, "Floor file"). Every problem is one
  * InputError line naming `source` and the cell or link at fault. Nothing is trimmed or guessed: unknown
  * keys, repeated keys and wrong types are errors. Cells and links keep the file's order.
  */

@@ -6,7 +6,7 @@ import { resolveKeyColumns } from './resolve-key-columns.js';
 import type { InputColumn, ReadRunsOptions, RunsTable } from './runs-table.js';
 
 /**
- * Reads a runs table from CSV text (CONTRACT.md, "Runs table"). Every column is kept as text
+ * Reads a runs table from CSV text (docs/formats.md, "Runs table"). Every column is kept as text
  * (`kind: 'utf8'`); an empty unquoted field is null. Messages locate rows by file line.
  */
 export function runsFromCsv(text: string, source: string, options: ReadRunsOptions): RunsTable {

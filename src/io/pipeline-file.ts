@@ -1,4 +1,4 @@
-/** A parsed `underfoot-pipeline/1` file (CONTRACT.md, "Pipeline file"), paths already resolved. */
+/** A parsed `underfoot-pipeline/1` file (docs/formats.md, "Pipeline file"), paths already resolved. */
 export interface PipelineFile {
   source: string;
   floor: string;

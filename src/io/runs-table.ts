@@ -1,5 +1,5 @@
 /**
- * A runs table as read from CSV or Arrow (see CONTRACT.md, "Runs table"): the readings of each run as
+ * A runs table as read from CSV or Arrow (see docs/formats.md, "Runs table"): the readings of each run as
  * integer codes, plus every input column kept for pass-through to the annotated output.
  */
 import type { DataType } from 'apache-arrow';

@@ -1,7 +1,7 @@
 import { extname } from 'node:path';
 import { InputError, quote } from '../errors.js';
 
-/** The table formats read and written, chosen by file extension (CONTRACT.md, "Runs table"). */
+/** The table formats read and written, chosen by file extension (docs/formats.md, "Runs table"). */
 export type TableFormat = 'csv' | 'arrow-file' | 'arrow-stream';
 
 const BY_EXTENSION: Record<string, TableFormat> = {

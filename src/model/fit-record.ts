@@ -49,7 +49,7 @@ export interface FitOptions {
   fromDigest: string | null;
 }
 
-/** Provenance of a fitted model (CONTRACT.md, model file `fit`). */
+/** Provenance of a fitted model (docs/formats.md, "Model file", the fit record). */
 export interface FitRecord {
   tool: string;
   toolVersion: string;

@@ -1,5 +1,5 @@
 /**
- * The surveyed floor graph, as read from an `underfoot-floor/1` file (see CONTRACT.md).
+ * The surveyed floor graph, as read from an `underfoot-floor/1` file (see docs/formats.md, "Floor file").
  * Plain data: the reader in `src/io/` validates it; `src/model/` builds models from it.
  */
 export interface FloorCell {

@@ -4,7 +4,7 @@
  * probabilities are stored once, in CSR order of `TransitionStructure` (see `src/kernels/sparse-chain.ts`).
  */
 
-/** How transitions are treated during fitting (CONTRACT.md, `fit --transitions`). */
+/** How transitions are treated during fitting (README.md, "Transition modes"). */
 export type TransitionMode = 'fixed' | 'tied' | 'per-cell' | 'learned';
 
 /** Sparse transition structure: every cell's dwell plus its links, in CSR and CSC over the same nonzeros. */

@@ -3,7 +3,7 @@ import { InputError } from '../../src/errors.js';
 import { formatFloor } from '../../src/io/format-floor.js';
 import { parseFloor } from '../../src/io/parse-floor.js';
 
-// Source for every rule checked here: the product contract (shared/CONTRACT.md), "Floor file" (format name, fields,
+// Source for every rule checked here: the file formats (docs/formats.md), "Floor file" (format name, fields,
 // defaults, and the list of errors). The floor is invented ("Wrenmoor Depot").
 
 type Json = Record<string, unknown>;

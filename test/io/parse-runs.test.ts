@@ -14,7 +14,7 @@ import { MAX_GAP_STEPS, MAX_TOTAL_STEPS, maxTotalSteps } from '../../src/io/buil
 import { runsFromArrow, runsFromCsv } from '../../src/io/parse-runs.js';
 import { DROPOUT, type ReadRunsOptions } from '../../src/io/runs-table.js';
 
-// Source for every rule checked here: the product contract (shared/CONTRACT.md), "Runs table" (columns, sorting, gaps
+// Source for every rule checked here: the file formats (docs/formats.md), "Runs table" (columns, sorting, gaps
 // as dropouts, duplicate steps and unknown readings as errors, --unknown-readings dropout, column
 // options). Surfaces and runs are invented.
 

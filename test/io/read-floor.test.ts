@@ -5,7 +5,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { InputError } from '../../src/errors.js';
 import { readFloor } from '../../src/io/read-floor.js';
 
-// Source: the product contract (shared/CONTRACT.md), "Floor file". Invented place: "Quillan Annex".
+// Source: the file formats (docs/formats.md), "Floor file". Invented place: "Quillan Annex".
 
 let dir: string;
 beforeAll(async () => {

@@ -7,7 +7,7 @@ import { InputError } from '../../src/errors.js';
 import { readRuns } from '../../src/io/read-runs.js';
 import { DROPOUT } from '../../src/io/runs-table.js';
 
-// Source: the product contract (shared/CONTRACT.md), "Runs table": format chosen by extension, `.csv`, `.arrow` /
+// Source: the file formats (docs/formats.md), "Runs table": format chosen by extension, `.csv`, `.arrow` /
 // `.feather` (IPC file), `.arrows` (IPC stream). Runs are invented.
 
 const OPTIONS = { surfaces: ['rubber', 'concrete'] };

@@ -5,7 +5,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { InputError } from '../../src/errors.js';
 import { writeFileAtomic } from '../../src/io/write-atomic.js';
 
-// Source for the behaviour: the product contract (shared/CONTRACT.md), "Files the tool writes" (temporary file, then
+// Source for the behaviour: the file formats (docs/formats.md), "Files the tool writes" (temporary file, then
 // rename; a failed command never leaves a half-written output where a good one was expected).
 
 let dir: string;

@@ -13,7 +13,7 @@ import { tableToCsv } from '../../src/io/table-to-csv.js';
 import { writeTable } from '../../src/io/write-table.js';
 
 // Sources: RFC 4180, section 2, rules 6 and 7 (quote fields holding commas, quotes and line breaks;
-// double a quote inside quotes); the product contract (shared/CONTRACT.md), "Runs table" (extensions) and "Files the tool
+// double a quote inside quotes); the file formats (docs/formats.md), "Runs table" (extensions) and "Files the tool
 // writes" (atomic outputs). Float round trip: ECMAScript Number::toString gives the shortest text that
 // reads back as the same double (ECMA-262, section 6.1.6.1.20), e.g. 0.1 + 0.2 -> "0.30000000000000004".
 

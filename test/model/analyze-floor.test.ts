@@ -4,7 +4,7 @@ import { analyzeFloor } from '../../src/model/analyze-floor.js';
 import type { FloorGraph } from '../../src/model/floor-graph.js';
 
 // The expected counts below are worked out by hand from each invented floor (drawn in the comments);
-// the rules come from the product contract (shared/CONTRACT.md), "Floor file" (start cells, one-way links, warnings).
+// the rules come from the file formats (docs/formats.md), "Floor file" (start cells, one-way links, warnings).
 
 function floor(cells: Array<[string, string, number, boolean?]>, links: Array<[string, string, boolean?]>): FloorGraph {
   return parseFloor(

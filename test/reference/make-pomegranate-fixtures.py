@@ -18,8 +18,8 @@ Sources for the algorithms used in the numpy cross-check:
   L. R. Rabiner, "A tutorial on hidden Markov models and selected applications in speech
   recognition", Proc. IEEE 77(2), 1989: scaled forward-backward (section V.A),
   Viterbi (section III.B), Baum-Welch re-estimation for several sequences (section V.B).
-Source for the pomegranate API usage: /work/shared/STACK.md, "Using the reference
-libraries", and pomegranate 0.14.8's hmm.pyx (installed with the Debian package).
+Source for the pomegranate API usage: DEVELOPERS.md, "Reference libraries and
+peers", and pomegranate 0.14.8's hmm.pyx (installed with the Debian package).
 """
 
 import json

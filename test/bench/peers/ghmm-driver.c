@@ -19,7 +19,7 @@
  * difference of two calls divided by the difference of their K), then `rss-kb <peak resident set>`.
  * Seconds are CLOCK_MONOTONIC around the library calls only.
  *
- * Usage notes from /work/shared/STACK.md: edge counts are set by hand (ghmm_dmodel_calloc does not),
+ * Usage notes from DEVELOPERS.md, "Reference libraries and peers": edge counts are set by hand (ghmm_dmodel_calloc does not),
  * in- and out-lists are filled consistently, and the three ATLAS LAPACK symbols that this Debian build
  * of libghmm.so.1 references without depending on ATLAS are defined here as aborting stubs (only
  * continuous-emission code reaches them). Run with MALLOC_MMAP_THRESHOLD_=33554432

@@ -10,8 +10,8 @@ summarize(runs, algorithm="baum-welch") then from_summaries(inertia=0.0, pseudoc
 from the previous count's model), then `rss-kb <peak resident set>`. Seconds are time.perf_counter
 around the library calls only.
 
-How pomegranate is made to compute a plain HMM (from /work/shared/STACK.md, "Using the reference
-libraries"): one State per cell with a DiscreteDistribution, only the transitions that exist, none to
+How pomegranate is made to compute a plain HMM (from DEVELOPERS.md, "Reference libraries and
+peers"): one State per cell with a DiscreteDistribution, only the transitions that exist, none to
 model.end (so the model has no end state), bake(merge="None") (the other merge modes may change the
 topology), and zero-padded state names because bake sorts states by name.
 Run with Debian's interpreter (/usr/bin/python3), the only one that sees python3-pomegranate.
