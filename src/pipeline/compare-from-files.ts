@@ -148,7 +148,8 @@ export async function compareFromFiles(config: CompareConfig, onProgress?: (p: C
     nullCounts.push((await refitOf(drawNullRuns(old.model, loaded.runs, nullDrawSeed(options.seed, b)), b)).countsT);
   }
   const { changes, regions, inflation } = compareCells(
-    old.model,
+    // Regions never cross the floor's zones (the floor's, which may be newer than the model's).
+    withFloorZones(old.model, floor),
     oldCountsT(old),
     observed.countsT,
     { ...config.compare, oldPriorStrength: old.fit?.options?.priorStrength ?? 0 },
