@@ -83,6 +83,20 @@ describe('compareCells with regions', () => {
     expect(single.changes.filter((c) => c.verdict === 'changed')).toHaveLength(0);
   });
 
+  it('one worn cell in the room is not diluted in the pool: the region is reported, the cell leads its candidates', () => {
+    const worn = model.cells.findIndex((c) => c.id === 'g-1-1');
+    // The worn cell reads carpet half the time now; the other room cells are as before.
+    const res = compareCells(model, countsT(oldRow), countsT((i) => (i === worn ? [450, 450, 50, 50] : oldRow(i))), opts);
+    const row = res.changes.find((c) => c.cell === 'g-1-1')!;
+    expect(row.verdict).toBe('changed');
+    expect(row.candidates[0]).toBe('g-1-1');
+    expect(row.candidates).toHaveLength(4);
+    expect(res.regions.filter((r) => r.verdict === 'changed')).toHaveLength(1);
+    // Its q-value: the region's p-value is 2 · 4 · (the cell's p-value) here (the strongest cell beats
+    // the pooled test), times the number of regions for the smallest of them (Benjamini–Hochberg).
+    expectClose(row.qValue!, 2 * 4 * row.pValue! * res.regions.length, { rel: 1e-9 });
+  });
+
   it('controls the false-discovery rate over regions: q-values are Benjamini–Hochberg of the regions\' p-values', () => {
     const res = compareCells(model, countsT(oldRow), countsT(newRow), opts);
     expect(res.regions.length).toBe(n - 3);
