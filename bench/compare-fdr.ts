@@ -14,6 +14,8 @@
  *
  *   npm run build && node dist/bench/compare-fdr.js [seeds] [nullDraws]
  *
+ * `REACH=` and `LOOKALIKE=` set the regions' reach (links) and look-alike threshold (total variation);
+ * `REACH=0 LOOKALIKE=-1` makes every cell its own region (cells tested alone, for comparison).
  * `FLOOR=` picks the invented building: `offices` (default: three offices of one surface each, zones,
  * over a corridor of repeating surfaces; runs start at the two corridor ends, the docks) or `stripes`
  * (5 × 4 cells, 4 surfaces repeating so that every neighbour differs, no zones, runs start anywhere;
@@ -24,6 +26,7 @@ import { sampleRun } from '../src/model/sample-run.js';
 import { SeededRandom } from '../src/model/seeded-random.js';
 import { emIteration } from '../src/fit/em-iteration.js';
 import { compareCells } from '../src/compare/compare-cells.js';
+import { DEFAULT_REGION_OPTIONS } from '../src/compare/build-regions.js';
 import { drawNullRuns } from '../src/compare/draw-null-runs.js';
 import { searchRefit, DEFAULT_REFIT_SEARCH } from '../src/compare/search-refit.js';
 import { packRuns } from '../src/fit/packed-runs.js';
@@ -41,6 +44,8 @@ const iterations = 200;
 const priorStrength = 10;
 
 const layout = process.env.FLOOR ?? 'offices';
+// REACH=k and LOOKALIKE=tv change how regions are formed; REACH=0 LOOKALIKE=-1 tests cells alone.
+const regionOptions = { ...DEFAULT_REGION_OPTIONS, ...(process.env.REACH ? { reach: Number(process.env.REACH) } : {}), ...(process.env.LOOKALIKE ? { lookAlikeTv: Number(process.env.LOOKALIKE) } : {}) };
 const surfaces = ['oak', 'carpet', 'tile', 'rubber', 'concrete'];
 const id = (x: number, y: number): string => `g-${x}-${y}`;
 const floor: FloorGraph = { format: 'underfoot-floor/1', name: 'fdr bench', surfaces, cells: [], links: [] };
@@ -151,7 +156,7 @@ async function trial(seed: number, kind: Kind) {
   const { refit, counts } = await refitOf(newRuns);
   const draws: Float64Array[] = [];
   for (let b = 0; b < nullDraws; b++) draws.push((await refitOf(drawNullRuns(calibrated, newRuns, seed * 1000 + b))).counts);
-  const res = compareCells(calibrated, oldCounts, counts, { fdr: 0.05, minReadings: 100, oldPriorStrength: 10 }, draws);
+  const res = compareCells(calibrated, oldCounts, counts, { fdr: 0.05, minReadings: 100, oldPriorStrength: 10, regions: regionOptions }, draws);
   const byId = new Map(floor.cells.map((c, i) => [c.id, i]));
   const reported = res.regions.filter((r) => r.verdict === 'changed');
   const falseRegions = reported.filter((r) => !r.cells.some((c) => changed.has(byId.get(c)!))).length;

@@ -3,11 +3,11 @@ import type { HmmModel } from '../model/hmm-model.js';
 export interface RegionOptions {
   /** Two cells look alike when the total variation distance between their old rows is at most this. @default 0.2 */
   lookAlikeTv: number;
-  /** Look-alike cells within this many links of a cell may carry its change. @default 2 */
+  /** Look-alike cells within this many links of a cell may carry its change. @default 3 */
   reach: number;
 }
 
-export const DEFAULT_REGION_OPTIONS: RegionOptions = { lookAlikeTv: 0.2, reach: 2 };
+export const DEFAULT_REGION_OPTIONS: RegionOptions = { lookAlikeTv: 0.2, reach: 3 };
 
 /**
  * Cells grouped into disjoint regions that the runs cannot tell apart: where the old rows of nearby
@@ -22,7 +22,9 @@ export const DEFAULT_REGION_OPTIONS: RegionOptions = { lookAlikeTv: 0.2, reach: 
  *
  * Regions are formed greedily in `order` (cells by strength of evidence, strongest first): the first
  * cell not yet in a region takes the rest of its patch and its reach. So a change credited to a
- * look-alike of the changed cell forms a region that holds the changed cell too. A cell with no
+ * look-alike of the changed cell forms a region that holds the changed cell too. The default reach of 3
+ * links was measured (bench/compare-fdr.ts, DEVELOPERS.md): on a floor of repeating surfaces the re-fit
+ * credits changes to look-alikes 3 links away, which a reach of 2 misses. A cell with no
  * look-alike nearby is a region of its own (a change the runs place). Returns, per region, its cells in
  * `order`, and per cell its region's index.
  */

@@ -16,7 +16,7 @@ function corridor(pattern: number[], zones?: string[]) {
 const ids = (model: ReturnType<typeof corridor>, regions: number[][]) => regions.map((r) => r.map((i) => model.cells[i].id).sort());
 
 describe('buildRegions', () => {
-  it('joins a stretch of one surface (along links) and look-alikes within 2 links; others stay single', () => {
+  it('joins a stretch of one surface (along links) and look-alikes within reach (3 links); others stay single', () => {
     const model = corridor([0, 0, 0, 1, 2, 1]);
     const { regions, regionOf } = buildRegions(model, [0, 1, 2, 3, 4, 5]);
     expect(ids(model, regions)).toEqual([['g-0-0', 'g-1-0', 'g-2-0'], ['g-3-0', 'g-5-0'], ['g-4-0']]);
@@ -47,9 +47,11 @@ describe('buildRegions', () => {
     const model = buildModel(floor, { dwell: 0.6, hit: 0.85 });
     const { regions } = buildRegions(model, Array.from({ length: 20 }, (_, i) => i));
     expect(regions.flat().sort((a, b) => a - b)).toEqual(Array.from({ length: 20 }, (_, i) => i));
-    // Within 2 links of a cell on a 4-neighbour grid: at most 12 other cells, of which the same surface
-    // as the cell (pattern (x + 2y) mod 4) at most 4.
-    expect(Math.max(...regions.map((r) => r.length))).toBeLessThanOrEqual(5);
+    // Same surface as cell (x, y) under the pattern (x + 2y) mod 4 within 3 links: (x, y ± 2) and
+    // (x ± 2, y ± 1), at most 6 others.
+    expect(Math.max(...regions.map((r) => r.length))).toBeLessThanOrEqual(7);
+    // With a reach of 2 only (x, y ± 2).
+    expect(Math.max(...buildRegions(model, Array.from({ length: 20 }, (_, i) => i), { lookAlikeTv: 0.2, reach: 2 }).regions.map((r) => r.length))).toBeLessThanOrEqual(3);
   });
 });
 
