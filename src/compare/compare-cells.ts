@@ -130,10 +130,18 @@ export function compareCells(
     }
     return total;
   };
-  // The old rows of a set of cells, pooled by their old readings (or averaged without them).
+  // The old rows of a set of cells mixed as the new runs visit them (each cell weighted by its expected
+  // readings in the new runs): what the pooled counts would follow under no change.
   const oldRowOf = (cells: readonly number[], out: Float64Array): void => {
     out.fill(0);
-    for (const i of cells) for (let r = 0; r < m; r++) out[r] += oldModel.emission[i * m + r] / cells.length;
+    let sum = 0;
+    for (const i of cells) {
+      let w = 0;
+      for (let r = 0; r < m; r++) w += newCountsT[r * n + i];
+      sum += w;
+      for (let r = 0; r < m; r++) out[r] += w * oldModel.emission[i * m + r];
+    }
+    for (let r = 0; r < m; r++) out[r] = sum > 0 ? out[r] / sum : 1 / m;
   };
   const oldRow = new Float64Array(m);
   /** G of a unit (one cell or a region's cells pooled), and with null draws its null scale; null when too few readings. */
