@@ -47,7 +47,7 @@ export function registerCompare(program: Command, io: CliIo): void {
     }
     for (const w of res.warnings) io.err(`warning: ${w}\n`);
     if (opts.json) {
-      io.out(JSON.stringify({ changed: res.nChanged, tested: res.nTested, tooFewReadings: res.nTooFew, nullDraws: res.nullDraws, inflation: res.inflation, beforePerReading: res.beforePerReading, afterPerReading: res.afterPerReading, changes: res.changes }) + '\n');
+      io.out(JSON.stringify({ changed: res.nChanged, changesReported: res.nRegionsChanged, placed: res.nPlaced, tested: res.nTested, tooFewReadings: res.nTooFew, nullDraws: res.nullDraws, inflation: res.inflation, beforePerReading: res.beforePerReading, afterPerReading: res.afterPerReading, changes: res.changes, regions: res.regions }) + '\n');
       return;
     }
     io.out(formatCompareSummary(res, config));
@@ -81,15 +81,33 @@ export function formatCompareSummary(res: CompareOutcome, config: Pick<CompareCo
       : `quick screen (--null-draws 0): G statistics divided by ${res.inflation.toFixed(2)} (median calibration); p-values not calibrated`,
     `new runs: log-likelihood per reading ${res.beforePerReading.toFixed(4)} under the old model, ${res.afterPerReading.toFixed(4)} after re-fitting (shift ${(res.afterPerReading - res.beforePerReading >= 0 ? '+' : '') + (res.afterPerReading - res.beforePerReading).toFixed(4)})`,
   ];
-  const strongest = res.changes.filter((c) => c.verdict === 'changed').slice(0, 10);
+  if (res.nRegionsChanged > 0) {
+    lines.push(
+      `${res.nRegionsChanged} reported change${res.nRegionsChanged === 1 ? '' : 's'} (false-discovery rate controlled over changes): ${res.nPlaced} placed on one cell, ${res.unplaced.length} in regions of cells the runs cannot tell apart (look-alike cells near each other; column candidates)`,
+    );
+  }
+  const strongest = res.changes.filter((c) => c.verdict === 'changed' && c.candidates[0] === c.cell).slice(0, 10);
   if (strongest.length) {
     lines.push('', 'strongest changes:');
     lines.push(
       formatTable(
-        ['cell', 'before', 'after', 'readings', 'TV', 'q'],
-        strongest.map((c) => [c.cell, c.surfaceBefore, c.surfaceAfter, Math.round(c.expectedReadings), c.tvDistance.toFixed(3), (c.qValue ?? 1).toExponential(1)]),
+        ['region', 'cell', 'before', 'after', 'readings', 'TV', 'q', 'candidates'],
+        strongest.map((c) => [
+          c.region,
+          c.cell,
+          c.surfaceBefore,
+          c.surfaceAfter,
+          Math.round(c.expectedReadings),
+          c.tvDistance.toFixed(3),
+          (c.qValue ?? 1).toExponential(1),
+          c.candidates.length === 1 ? '(placed)' : `${c.candidates.length} cells: ${c.candidates.slice(0, 4).join(';')}${c.candidates.length > 4 ? ';…' : ''}`,
+        ]),
       ).trimEnd(),
     );
+  }
+  if (config.writeFloor && res.unplaced.length) {
+    lines.push('', `not written to ${config.writeFloor} (the change could be at any of these cells; inspect them):`);
+    for (const r of res.unplaced) lines.push(`  ${r.region}: ${r.cells.join(';')}`);
   }
   lines.push('');
   if (config.out) lines.push(`wrote ${config.out}`);

@@ -37,7 +37,7 @@ export function registerRun(program: Command, io: CliIo): void {
         JSON.stringify({
           written: res.written,
           fit: res.fit?.file.fit ?? null,
-          compare: res.compare ? { changed: res.compare.nChanged, tested: res.compare.nTested, tooFewReadings: res.compare.nTooFew, nullDraws: res.compare.nullDraws, changes: res.compare.changes } : null,
+          compare: res.compare ? { changed: res.compare.nChanged, changesReported: res.compare.nRegionsChanged, placed: res.compare.nPlaced, tested: res.compare.nTested, tooFewReadings: res.compare.nTooFew, nullDraws: res.compare.nullDraws, changes: res.compare.changes, regions: res.compare.regions } : null,
           runs: res.decode?.decoded.summaries ?? null,
         }) + '\n',
       );

@@ -31,7 +31,7 @@ import { firstDwell } from '../model/first-dwell.js';
 import { toBlocks } from '../fit/to-blocks.js';
 import { searchRefit, type RefitSearchOptions, type RefitSearchProgress, type RefitSearchResult } from '../compare/search-refit.js';
 import { TOOL_VERSION } from '../version.js';
-import { compareCells, type CellChange, type CompareOptions } from '../compare/compare-cells.js';
+import { compareCells, type CellChange, type CompareOptions, type RegionChange } from '../compare/compare-cells.js';
 import type { KeyColumns } from './key-columns.js';
 import { loadRuns } from './load-runs.js';
 import { wasmFallbackWarning } from './wasm-fallback-warning.js';
@@ -64,6 +64,14 @@ export interface RunShift {
 
 export interface CompareOutcome {
   changes: CellChange[];
+  /** The regions (cells the runs cannot tell apart, tested as one unit), by q-value. */
+  regions: RegionChange[];
+  /** Reported changes (regions), and those placed on one cell (the only ones `--write-floor` writes). */
+  nRegionsChanged: number;
+  nPlaced: number;
+  /** Reported changes spanning several cells: listed for inspection, never written to the floor. */
+  unplaced: RegionChange[];
+  /** Cells in reported regions. */
   nChanged: number;
   nTested: number;
   nTooFew: number;
@@ -139,8 +147,9 @@ export async function compareFromFiles(config: CompareConfig, onProgress?: (p: C
   for (let b = 1; b <= config.nullDraws; b++) {
     nullCounts.push((await refitOf(drawNullRuns(old.model, loaded.runs, nullDrawSeed(options.seed, b)), b)).countsT);
   }
-  const { changes, inflation } = compareCells(
-    old.model,
+  const { changes, regions, inflation } = compareCells(
+    // Regions never cross the floor's zones (the floor's, which may be newer than the model's).
+    withFloorZones(old.model, floor),
     oldCountsT(old),
     observed.countsT,
     { ...config.compare, oldPriorStrength: old.fit?.options?.priorStrength ?? 0 },
@@ -158,16 +167,28 @@ export async function compareFromFiles(config: CompareConfig, onProgress?: (p: C
   const before = runs.reduce((s, r) => s + r.before, 0) / Math.max(1, readings);
   const after = runs.reduce((s, r) => s + r.after, 0) / Math.max(1, readings);
   const refitFile: ModelFile = { name: old.name, model: withFloorZones(refit, floor), fit: record };
+  const reported = regions.filter((r) => r.verdict === 'changed');
+  const placed = new Set(reported.filter((r) => r.cells.length === 1).map((r) => r.cells[0]));
+  const unplaced = reported.filter((r) => r.cells.length > 1);
   let newFloor: FloorGraph | null = null;
   if (config.writeFloor) {
-    const changed = new Map(changes.filter((c) => c.verdict === 'changed').map((c) => [c.cell, c.surfaceAfter]));
+    // Only changes the runs place on one cell; a region's change could be at any of its cells.
+    const changed = new Map(changes.filter((c) => placed.has(c.cell)).map((c) => [c.cell, c.surfaceAfter]));
     newFloor = { ...floor, cells: floor.cells.map((c) => (changed.has(c.id) ? { ...c, surface: changed.get(c.id)! } : c)) };
   }
   if (config.out) await writeTable(config.out, changesTable(changes));
   if (config.refit) await writeFileAtomic(config.refit, formatModel(refitFile));
   if (config.writeFloor && newFloor) await writeFileAtomic(config.writeFloor, formatFloor(newFloor));
+  const regionWarnings =
+    config.writeFloor && unplaced.length
+      ? [`compare: ${unplaced.length} reported change${unplaced.length === 1 ? '' : 's'} could be at any of several cells the runs cannot tell apart and ${unplaced.length === 1 ? 'is' : 'are'} not written to ${config.writeFloor}; inspect: ${unplaced.slice(0, 5).map((r) => `${r.region} (${r.cells.join(';')})`).join(', ')}${unplaced.length > 5 ? `, and ${unplaced.length - 5} more` : ''}`]
+      : [];
   return {
     changes,
+    regions,
+    nRegionsChanged: reported.length,
+    nPlaced: placed.size,
+    unplaced,
     nChanged: changes.filter((c) => c.verdict === 'changed').length,
     nTested: changes.filter((c) => c.verdict !== 'too-few-readings').length,
     nTooFew: changes.filter((c) => c.verdict === 'too-few-readings').length,
@@ -180,8 +201,8 @@ export async function compareFromFiles(config: CompareConfig, onProgress?: (p: C
     options: config.compare,
     newFloor,
     warnings: withOdometry.movement && !useOdometry
-      ? [...loaded.warnings, ...wasmFallbackWarning(), `compare: the odometry columns (${[withOdometry.movement.movedCol, withOdometry.movement.headingCol].filter((c) => c).join(', ')}) are ignored: the old model has no movement parameters`]
-      : [...loaded.warnings, ...wasmFallbackWarning()],
+      ? [...loaded.warnings, ...wasmFallbackWarning(), ...regionWarnings, `compare: the odometry columns (${[withOdometry.movement.movedCol, withOdometry.movement.headingCol].filter((c) => c).join(', ')}) are ignored: the old model has no movement parameters`]
+      : [...loaded.warnings, ...wasmFallbackWarning(), ...regionWarnings],
   };
 }
 
@@ -257,7 +278,11 @@ function scoreShift(oldModel: HmmModel, newModel: HmmModel, runs: ReadonlyArray<
   });
 }
 
-/** The changes table: `cell`, `surface_before`, `surface_after`, `expected_readings`, `tv_distance`, `g_stat`, `p_value`, `q_value`, `verdict`. */
+/**
+ * The changes table: `cell`, `surface_before`, `surface_after`, `expected_readings`, `tv_distance`,
+ * `g_stat`, `p_value` (the cell's own test), `q_value` and `verdict` (its region's), `region` (shared by
+ * the cells of one reported change), `candidates` (the region's cells, `;`-separated).
+ */
 export function changesTable(changes: CellChange[]): OutputTable {
   return {
     nRows: changes.length,
@@ -271,6 +296,8 @@ export function changesTable(changes: CellChange[]): OutputTable {
       { name: 'p_value', kind: 'float64', get: (r) => changes[r].pValue },
       { name: 'q_value', kind: 'float64', get: (r) => changes[r].qValue },
       { name: 'verdict', kind: 'utf8', get: (r) => changes[r].verdict },
+      { name: 'region', kind: 'utf8', get: (r) => changes[r].region },
+      { name: 'candidates', kind: 'utf8', get: (r) => changes[r].candidates.join(';') },
     ],
   };
 }

@@ -33,8 +33,17 @@ describe('compare', () => {
     expect(r.stdout).toContain('p-values from 3 copies of the new runs simulated under the old model');
     expect(r.stdout).toMatch(/log-likelihood per reading -?\d/);
     const t = parseCsv(readFileSync(p('changes.csv'), 'utf8'), 'changes.csv');
-    expect(t.header).toEqual(['cell', 'surface_before', 'surface_after', 'expected_readings', 'tv_distance', 'g_stat', 'p_value', 'q_value', 'verdict']);
+    // The per-cell columns, then the region columns (added: a change the runs cannot place on one cell).
+    expect(t.header).toEqual(['cell', 'surface_before', 'surface_after', 'expected_readings', 'tv_distance', 'g_stat', 'p_value', 'q_value', 'verdict', 'region', 'candidates']);
     expect(t.nRows).toBe(12);
+    // Every cell is in exactly one region; its candidates are the region's cells, itself among them.
+    const regionOf = new Map<string, string>();
+    t.columns[9].toArray().forEach((r, k) => regionOf.set(String(t.columns[0].toArray()[k]), String(r)));
+    t.columns[10].toArray().forEach((c, k) => {
+      const cells = String(c).split(';');
+      expect(cells).toContain(t.columns[0].toArray()[k]);
+      for (const other of cells) expect(regionOf.get(other)).toBe(t.columns[9].toArray()[k]);
+    });
     const verdicts = t.columns[8].toArray();
     // The calibration of the p-values is a property test (test/compare/null-calibration.test.ts); what
     // the re-fit can attribute on a floor like this is measured by bench/compare-fdr.ts (DEVELOPERS.md).
@@ -106,4 +115,55 @@ describe('compare', () => {
     expect(r.stderr).toContain('surfaces');
     expect(r.stderr.trimEnd().split('\n')).toHaveLength(1);
   });
+});
+
+// An invented refurbishment: two offices of one surface each (zones), a corridor of mixed surfaces
+// below them; office A (6 cells) re-floored as a whole and one worn corridor cell replaced.
+describe('compare on a refurbished building (regions)', () => {
+  const sf = ['oak', 'carpet', 'tile', 'rubber', 'concrete'];
+  // No surface repeats along the corridor within 3 links (a region's reach), so the worn cell can be
+  // placed; its new surface (carpet, office A's old one) is found nowhere near it.
+  const corridorPattern = [0, 2, 3, 4, 0, 2];
+  const before = gridFloor(6, 3, sf, (x, y) => (y < 2 ? (x < 3 ? 1 : 4) : corridorPattern[x]), 'refurbished offices');
+  before.cells.forEach((c) => (c.zone = c.y < 2 ? (c.x < 3 ? 'office-a' : 'office-b') : 'corridor'));
+  const officeA = before.cells.filter((c) => c.zone === 'office-a').map((c) => c.id);
+  const worn = 'g-4-2';
+  const after = { ...before, cells: before.cells.map((c) => (c.zone === 'office-a' ? { ...c, surface: 'rubber' } : c.id === worn ? { ...c, surface: 'carpet' } : c)) };
+
+  it('reports the re-floored office as one region holding its cells, and writes only the change placed on one cell', () => {
+    writeFileSync(p('offices.json'), JSON.stringify(before));
+    writeFileSync(p('offices-after.json'), JSON.stringify(after));
+    for (const [floorFile, out, seed] of [['offices.json', 'o-old.csv', '3'], ['offices-after.json', 'o-new.csv', '4']]) {
+      const r = runCli(['simulate', '--floor', p(floorFile), '--runs', '30', '--steps', '300', '--seed', seed, '--hit', '0.85', '--dwell', '0.6', '--out', p(out)]);
+      expect(r.code, r.stderr).toBe(0);
+    }
+    const fit = runCli(['fit', '--floor', p('offices.json'), '--runs', p('o-old.csv'), '--out', p('o-model.json'), '--restarts', '2', '--workers', '1', '--quiet']);
+    expect(fit.code, fit.stderr).toBe(0);
+    const r = runCli(['compare', '--model', p('o-model.json'), '--floor', p('offices.json'), '--runs', p('o-new.csv'), '--out', p('o-changes.csv'), '--write-floor', p('o-floor.json'), '--workers', '1', '--null-draws', '3', '--quiet']);
+    expect(r.code, r.stderr).toBe(0);
+    const t = parseCsv(readFileSync(p('o-changes.csv'), 'utf8'), 'o-changes.csv');
+    const col = (name: string) => t.columns[t.header.indexOf(name)].toArray().map(String);
+    const cells = col('cell');
+    const rowOf = (id: string) => cells.indexOf(id);
+    // The office: one region, reported changed, whose candidates are the office's cells.
+    const officeRegions = new Set(officeA.map((id) => col('region')[rowOf(id)]));
+    expect(officeRegions.size).toBe(1);
+    for (const id of officeA) expect(col('verdict')[rowOf(id)]).toBe('changed');
+    expect(col('candidates')[rowOf(officeA[0])].split(';').sort()).toEqual([...officeA].sort());
+    // The worn cell: placed on itself.
+    expect(col('verdict')[rowOf(worn)]).toBe('changed');
+    expect(col('candidates')[rowOf(worn)]).toBe(worn);
+    // --write-floor: the worn cell's new surface; the office (a change the floor file cannot place cell
+    // by cell) left as it was, listed for inspection in the summary and a warning.
+    const written = parseFloor(readFileSync(p('o-floor.json'), 'utf8'), 'o-floor.json');
+    expect(written.cells.find((c) => c.id === worn)!.surface).toBe('carpet');
+    for (const id of officeA) expect(written.cells.find((c) => c.id === id)!.surface).toBe('carpet');
+    written.cells.forEach((c, i) => {
+      if (c.surface !== before.cells[i].surface) expect(col('candidates')[rowOf(c.id)]).toBe(c.id);
+    });
+    const office = col('region')[rowOf(officeA[0])];
+    expect(r.stdout).toContain(`not written to ${p('o-floor.json')}`);
+    expect(r.stdout).toMatch(new RegExp(`${office}: [^\\n]*g-0-0`));
+    expect(r.stderr).toContain('cannot tell apart');
+  }, 300_000);
 });
