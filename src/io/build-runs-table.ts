@@ -14,6 +14,8 @@ export interface KeyedRows {
   readingCol: string;
   /** The time column when steps come from times (`options.timeCol`); `stepAt` then returns times. */
   timeCol?: string;
+  /** Writes a time (seconds) as messages show it, for time columns that are not text (Arrow timestamps). */
+  describeTime?: (seconds: number) => string;
   /**
    * Values of the run, step and reading columns at a row (`null`/`undefined` for a missing value): text,
    * numbers or bigints. Called once per row, in row order.
@@ -346,7 +348,8 @@ export const GAP_WARNING_SHARE = 0.05;
 
 /**
  * Maps each row's time to a step: per run, rows sorted by time (stable), step = round((t − t_first) /
- * period). The period is `given` (seconds) or, when absent, the median of the positive spacings between
+ * period − phase), the phase being the circular mean of the run's readings within a period (so
+ * the first reading's jitter does not shift the run), steps counted from 0 at the first reading. The period is `given` (seconds) or, when absent, the median of the positive spacings between
  * consecutive readings of the same run over all runs. Two readings of a run rounding to the same step
  * are an error naming the run and both times (readings are never dropped silently).
  */
@@ -390,17 +393,30 @@ function timesToSteps(
   const steps = new Float64Array(timeOfRow.length);
   const timeText = (row: number) => {
     const raw = input.stepAt(row);
+    if (input.describeTime && typeof raw === 'number') return input.describeTime(raw);
     return typeof raw === 'string' ? raw : String(raw);
   };
   for (let r = 0; r < nRuns; r++) {
     const first = timeOfRow[order[start[r]]];
+    // The run's grid phase: the circular mean of the readings' positions within a period, so the
+    // jitter of the first reading does not shift every step of the run.
+    let c = 0;
+    let sn = 0;
+    for (let k = start[r]; k < start[r + 1]; k++) {
+      const angle = 2 * Math.PI * ((timeOfRow[order[k]] - first) / period);
+      c += Math.cos(angle);
+      sn += Math.sin(angle);
+    }
+    const phase = c === 0 && sn === 0 ? 0 : Math.atan2(sn, c) / (2 * Math.PI);
+    const stepAt = (row: number) => Math.round((timeOfRow[row] - first) / period - phase);
+    const base = stepAt(order[start[r]]);
     let lastStep = -1;
     for (let k = start[r]; k < start[r + 1]; k++) {
       const row = order[k];
-      const step = Math.round((timeOfRow[row] - first) / period);
+      const step = stepAt(row) - base;
       if (!Number.isSafeInteger(step)) {
         throw new InputError(
-          `${source}: times of run ${quote(runIds[r])} must span a whole number of periods, got ${timeText(row)} at ${locate(row)}, too far from the run's first time for period ${formatPeriod(period)}`,
+          `${source}: times of run ${quote(runIds[r])} must lie within a safe number of periods of the run's first time, got ${timeText(row)} at ${locate(row)} for period ${formatPeriod(period)}`,
         );
       }
       if (step === lastStep) {

@@ -93,6 +93,7 @@ export function runsFromArrow(bytes: Uint8Array, source: string, options: ReadRu
       stepAt: steps,
       readingAt: readings,
       ...(keys.timeCol !== undefined ? { timeCol: keys.timeCol } : {}),
+      ...(isTimeType ? { describeTime: isoText } : {}),
       locate: (row) => `row ${row + 1}`,
     },
     options,
@@ -122,6 +123,14 @@ function timeValues(vector: Vector): (row: number) => unknown {
       return Number(raw / perSecond) + Number(raw % perSecond) / Number(perSecond);
     };
   });
+}
+
+/** Seconds since the epoch as ISO 8601 UTC text, to the microsecond when needed. */
+function isoText(seconds: number): string {
+  const ms = Math.floor(seconds * 1000);
+  const micros = Math.round((seconds * 1000 - ms) * 1000);
+  const text = new Date(ms).toISOString();
+  return micros > 0 && micros < 1000 ? text.replace('Z', `${String(micros).padStart(3, '0')}Z`) : text;
 }
 
 function decodeArrow(bytes: Uint8Array, source: string): Table {
