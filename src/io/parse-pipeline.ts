@@ -16,7 +16,7 @@ export const PIPELINE_COMPARE_KEYS = [
 ];
 const DECODE_KEYS = ['lowConfidence', 'surprisingBits'];
 const OUT_KEYS = ['dir', 'model', 'annotated', 'summary', 'report', 'changes', 'floor'];
-const TABLE_EXTENSIONS = ['.csv', '.arrow', '.feather', '.arrows'];
+const TABLE_EXTENSIONS = ['.csv', '.arrow', '.feather', '.arrows', '.parquet'];
 /** The extensions the tool writes for each `out` entry (checked before anything is read). */
 const OUT_EXTENSIONS: Record<string, string[]> = {
   model: ['.json'],

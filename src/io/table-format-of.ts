@@ -2,20 +2,21 @@ import { extname } from 'node:path';
 import { InputError, quote } from '../errors.js';
 
 /** The table formats read and written, chosen by file extension (CONTRACT.md, "Runs table"). */
-export type TableFormat = 'csv' | 'arrow-file' | 'arrow-stream';
+export type TableFormat = 'csv' | 'arrow-file' | 'arrow-stream' | 'parquet';
 
 const BY_EXTENSION: Record<string, TableFormat> = {
   '.csv': 'csv',
   '.arrow': 'arrow-file',
   '.feather': 'arrow-file',
   '.arrows': 'arrow-stream',
+  '.parquet': 'parquet',
 };
 
 /** The path that means standard input (for an input) or standard output (for an output). */
 export const STDIO_PATH = '-';
 
 /** The `--format` names and the formats they choose for `-`. */
-export const FORMAT_NAMES: Record<string, TableFormat> = { csv: 'csv', arrow: 'arrow-file', feather: 'arrow-file', arrows: 'arrow-stream' };
+export const FORMAT_NAMES: Record<string, TableFormat> = { csv: 'csv', arrow: 'arrow-file', feather: 'arrow-file', arrows: 'arrow-stream', parquet: 'parquet' };
 
 let stdioFormat: TableFormat | null = null;
 

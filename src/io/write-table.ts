@@ -1,5 +1,6 @@
 import type { OutputTable } from './output-table.js';
-import { STDIO_PATH, tableFormatOf } from './table-format-of.js';
+import { STDIO_PATH, tableFormatOf, type TableFormat } from './table-format-of.js';
+import { tableToParquetBytes } from './table-to-parquet-bytes.js';
 import { tableToArrowBytes } from './table-to-arrow-bytes.js';
 import { csvChunks } from './table-to-csv.js';
 import { writeFileAtomic } from './write-atomic.js';
@@ -12,7 +13,7 @@ import { writeFileAtomic } from './write-atomic.js';
 export async function writeTable(path: string, table: OutputTable): Promise<void> {
   const format = tableFormatOf(path);
   if (path === STDIO_PATH) {
-    await writeStandardOutput(format === 'csv' ? csvChunks(table, 8192, path) : [tableToArrowBytes(table, format === 'arrow-stream', path)]);
+    await writeStandardOutput(format === 'csv' ? csvChunks(table, 8192, path) : [binaryBytes(table, format, path)]);
     return;
   }
   if (format === 'csv') {
@@ -22,7 +23,11 @@ export async function writeTable(path: string, table: OutputTable): Promise<void
     await writeFileAtomic(path, prepend(header.done ? '' : header.value, chunks));
     return;
   }
-  await writeFileAtomic(path, tableToArrowBytes(table, format === 'arrow-stream', path));
+  await writeFileAtomic(path, binaryBytes(table, format, path));
+}
+
+function binaryBytes(table: OutputTable, format: TableFormat, path: string): Uint8Array {
+  return format === 'parquet' ? tableToParquetBytes(table, path) : tableToArrowBytes(table, format === 'arrow-stream', path);
 }
 
 function* prepend(first: string, rest: Iterator<string>): Generator<string> {
