@@ -5,7 +5,16 @@ import type { HmmModel } from '../model/hmm-model.js';
 import { chainFromModel } from '../model/chain-from-model.js';
 import { logChain } from '../decode/log-chain.js';
 import { decodeRun } from '../decode/decode-run.js';
-import { summarizeRun, flagText, type RunSummary } from '../decode/summarize-run.js';
+import { summarizeRun, flagText, FLAG_DROPOUT, FLAG_IMPOSSIBLE, FLAG_LOW_CONFIDENCE, FLAG_SURPRISING, type RunSummary } from '../decode/summarize-run.js';
+import { Bool } from 'apache-arrow';
+
+/** The boolean flag columns of the annotated table and the flag bit each shows (after the position columns). */
+export const FLAG_COLUMNS: Array<[string, number]> = [
+  ['flag_dropout', FLAG_DROPOUT],
+  ['flag_low_confidence', FLAG_LOW_CONFIDENCE],
+  ['flag_surprising', FLAG_SURPRISING],
+  ['flag_impossible', FLAG_IMPOSSIBLE],
+];
 import { positionLayout } from '../decode/position-layout.js';
 import { summarizeZones, type ZoneSummary } from '../decode/summarize-zones.js';
 import { positionColumns } from './position-columns.js';
@@ -129,6 +138,8 @@ export function decodeRuns(
       { name: 'surprise_bits', kind: 'float64', get: num(surprise) },
       { name: 'flag', kind: 'utf8', get: (row) => flagText(flags[row]) },
       ...positionColumns(model, layout, { pathCell, likelyZone, zoneP, meanLevel, meanX, meanY, spread }),
+      // Each flag as its own boolean column (the `flag` text kept above), for tools that filter on booleans.
+      ...FLAG_COLUMNS.map(([name, bit]): OutputColumn => ({ name, kind: 'passthrough', arrowType: new Bool(), get: (row) => (flags[row] & bit) !== 0 })),
     ],
   };
   const finite = (v: number) => (Number.isFinite(v) ? v : null);
