@@ -1,8 +1,7 @@
 import type { Command } from 'commander';
 import { DEFAULT_KEY_COLUMNS, type KeyColumns } from '../pipeline/key-columns.js';
 import { InputError, quote } from '../errors.js';
-import { parsePeriod } from '../io/parse-time.js';
-import { setStdioTableFormat } from '../io/table-format-of.js';
+import { parsePeriod, setStdioTableFormat } from '../pipeline/table-options.js';
 
 /** Adds the runs-table column options shared by commands that read runs. */
 export function addKeyColumnOptions(cmd: Command, movement = true): Command {

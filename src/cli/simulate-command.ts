@@ -2,7 +2,7 @@ import { InputError } from '../errors.js';
 import type { Command } from 'commander';
 import { simulateToFile, type SimulateConfig } from '../pipeline/simulate-to-file.js';
 import { addOutputOptions, numberOption } from './common-options.js';
-import { setStdioTableFormat } from '../io/table-format-of.js';
+import { setStdioTableFormat } from '../pipeline/table-options.js';
 import type { CliIo } from './cli-io.js';
 
 export function registerSimulate(program: Command, io: CliIo): void {

@@ -27,7 +27,7 @@ export async function writeTable(path: string, table: OutputTable): Promise<void
 }
 
 function binaryBytes(table: OutputTable, format: TableFormat, path: string): Uint8Array {
-  return format === 'parquet' ? tableToParquetBytes(table, path) : tableToArrowBytes(table, format === 'arrow-stream', path);
+  return format === 'parquet' ? tableToParquetBytes(table, path, table.metadata) : tableToArrowBytes(table, format === 'arrow-stream', path);
 }
 
 function* prepend(first: string, rest: Iterator<string>): Generator<string> {
