@@ -1,6 +1,7 @@
 import { DataType, Precision, tableFromIPC, type Data, type Table, type Vector } from 'apache-arrow';
 import { InputError, quote } from '../errors.js';
 import { buildRunsTable } from './build-runs-table.js';
+import { registerArrowCodecs } from './arrow-codecs.js';
 import { MAX_TABLE_COLUMNS, parseCsv, type CsvColumn } from './parse-csv.js';
 import { resolveKeyColumns } from './resolve-key-columns.js';
 import type { InputColumn, ReadRunsOptions, RunsTable } from './runs-table.js';
@@ -136,6 +137,7 @@ function isoText(seconds: number): string {
 function decodeArrow(bytes: Uint8Array, source: string): Table {
   if (bytes.length === 0) throw new InputError(`${source}: file must be Arrow IPC (file or stream), got an empty file`);
   let table: Table;
+  registerArrowCodecs();
   try {
     table = tableFromIPC(bytes);
   } catch (err) {

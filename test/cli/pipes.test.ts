@@ -86,9 +86,9 @@ describe('standard input and output ("-") through the built command', () => {
     expect(both.code).toBe(2);
     expect(both.stderr).toContain('--summary must differ from every other output, got -');
     const badFormat = cli(['check', '--floor', p('floor.json'), '--runs', '-', '--format', 'xlsx'], '');
-    expect(badFormat.stderr.trim()).toBe('underfoot: check: --format must be one of csv, arrow, feather, arrows, got "xlsx"');
+    expect(badFormat.stderr.trim()).toBe('underfoot: check: --format must be one of csv, arrow, feather, arrows, parquet, got "xlsx"');
     const json = cli(['check', '--floor', p('floor.json'), '--runs', '-', '--json'], '');
     expect(json.code).toBe(2);
-    expect(JSON.parse(json.stderr)).toEqual({ error: '-: a table on standard input or output must come with --format (csv, arrow, feather, arrows), got no --format', exit: 2 });
+    expect(JSON.parse(json.stderr)).toEqual({ error: '-: a table on standard input or output must come with --format (csv, arrow, feather, arrows, parquet), got no --format', exit: 2 });
   });
 });
