@@ -1,5 +1,6 @@
 // Measures Parquet write/read of a runs-like table (run, step, reading, moved) with hyparquet(+writer)
 // and parquet-wasm (via Arrow IPC). Usage: node bench/parquet-libraries.mjs ROWS LIB (LIB: hy | wasm)
+// parquet-wasm is not a dependency (it lost the comparison): `npm i --no-save parquet-wasm@0.8.0` before the "wasm" run.
 import { parquetWriteBuffer } from 'hyparquet-writer';
 import { parquetRead } from 'hyparquet';
 import { tableToIPC, tableFromIPC, tableFromArrays, vectorFromArray, Utf8, Table, Int32, Float64 } from 'apache-arrow';
