@@ -15,6 +15,20 @@ import { registerCompare } from './compare-command.js';
  * usage. Errors print one line on stderr (a stack trace only with --debug).
  */
 export async function main(argv: string[], io: CliIo = processIo): Promise<number> {
+  const flags = argv.slice(0, argv.includes('--') ? argv.indexOf('--') : argv.length);
+  const json = flags.includes('--json');
+  const quiet = flags.includes('-q') || flags.includes('--quiet');
+  // A table written to standard output (`--out -` etc.) owns stdout: messages (and --json results) go
+  // to stderr. --quiet prints nothing but errors (and a --json result).
+  const stdoutIsData = flags.some((a, i) => (a === '-' && ['--out', '--summary', '--changes'].includes(flags[i - 1] ?? '')) || /^--(out|summary|changes)=-$/.test(a));
+  const commandIo: CliIo = {
+    out: quiet && !json ? () => {} : stdoutIsData ? io.err : io.out,
+    err: quiet ? () => {} : io.err,
+    errIsTty: io.errIsTty,
+  };
+  const printError = (message: string, code: number): void => {
+    io.err(json ? `${JSON.stringify({ error: message, exit: code })}\n` : `underfoot: ${message}\n`);
+  };
   const program = new Command();
   program
     .name('underfoot')
@@ -23,13 +37,13 @@ export async function main(argv: string[], io: CliIo = processIo): Promise<numbe
     .exitOverride()
     .showHelpAfterError('(add --help for usage)')
     .configureOutput({ writeOut: (s) => io.out(s), writeErr: (s) => io.err(s) });
-  registerCheck(program, io);
-  registerSimulate(program, io);
-  registerFit(program, io);
-  registerDecode(program, io);
-  registerRun(program, io);
-  registerReport(program, io);
-  registerCompare(program, io);
+  registerCheck(program, commandIo);
+  registerSimulate(program, commandIo);
+  registerFit(program, commandIo);
+  registerDecode(program, commandIo);
+  registerRun(program, commandIo);
+  registerReport(program, commandIo);
+  registerCompare(program, commandIo);
   for (const cmd of program.commands) cmd.exitOverride();
   const debug = argv.includes('--debug');
   try {
@@ -41,17 +55,17 @@ export async function main(argv: string[], io: CliIo = processIo): Promise<numbe
       return 2; // commander has already printed its one-line message
     }
     if (err instanceof InputError || err instanceof WorkError || err instanceof InterruptedError) {
-      io.err(`underfoot: ${err.message}\n`);
+      printError(err.message, err.exitCode);
       if (debug && err.stack) io.err(err.stack + '\n');
       return err.exitCode;
     }
     if (isOutOfMemory(err)) {
-      io.err(`underfoot: ${outOfMemoryError(err).message}\n`);
+      printError(outOfMemoryError(err).message, 1);
       if (debug && (err as Error).stack) io.err((err as Error).stack + '\n');
       return 1;
     }
     const e = err as Error;
-    io.err(`underfoot: internal error: ${e?.message ?? String(err)}${debug ? '' : ' (run again with --debug for details)'}\n`);
+    printError(`internal error: ${e?.message ?? String(err)}${debug ? '' : ' (run again with --debug for details)'}`, 1);
     if (debug && e?.stack) io.err(e.stack + '\n');
     return 1;
   }

@@ -1,6 +1,7 @@
 import { InputError, quote } from '../errors.js';
 import { isWellFormedText } from './json-fields.js';
 import { listForMessage } from './list-for-message.js';
+import { formatPeriod, parseTime } from './parse-time.js';
 import { DROPOUT, type InputColumn, type ReadRunsOptions, type RunSequence, type RunsTable } from './runs-table.js';
 
 /** A table's rows as the runs builder needs them, whatever file format they came from. */
@@ -11,6 +12,10 @@ export interface KeyedRows {
   runCol: string;
   stepCol: string;
   readingCol: string;
+  /** The time column when steps come from times (`options.timeCol`); `stepAt` then returns times. */
+  timeCol?: string;
+  /** Writes a time (seconds) as messages show it, for time columns that are not text (Arrow timestamps). */
+  describeTime?: (seconds: number) => string;
   /**
    * Values of the run, step and reading columns at a row (`null`/`undefined` for a missing value): text,
    * numbers or bigints. Called once per row, in row order.
@@ -97,6 +102,8 @@ export function buildRunsTable(input: KeyedRows, options: ReadRunsOptions): Runs
   const unknownLabels = new Map<string, number>();
   let lastRunId = '';
   let lastRun = -1;
+  const timeCol = input.timeCol;
+  const timeOfRow = timeCol !== undefined ? new Float64Array(nRows) : null;
   for (let row = 0; row < nRows; row++) {
     const rawRun = input.runAt(row);
     if (rawRun === null || rawRun === undefined || rawRun === '') {
@@ -118,7 +125,16 @@ export function buildRunsTable(input: KeyedRows, options: ReadRunsOptions): Runs
     lastRun = r;
 
     const rawStep = input.stepAt(row);
-    const step = toStep(rawStep);
+    if (timeOfRow) {
+      const time = parseTime(rawStep);
+      if (Number.isNaN(time)) {
+        throw new InputError(
+          `${source}: time of run ${quote(runId)} at ${locate(row)} must be a time (seconds, or ISO 8601 text such as 2026-03-01T09:30:00.250Z), got ${describeValue(rawStep)}`,
+        );
+      }
+      timeOfRow[row] = time;
+    }
+    const step = timeOfRow ? 0 : toStep(rawStep);
     if (step < 0) {
       throw new InputError(
         `${source}: step of run ${quote(runId)} at ${locate(row)} must be a whole number >= 0, got ${describeValue(rawStep)}`,
@@ -132,6 +148,7 @@ export function buildRunsTable(input: KeyedRows, options: ReadRunsOptions): Runs
       codeOfRow[row] = DROPOUT;
       continue;
     }
+    const stepForMessage = timeOfRow ? `time ${describeValue(rawStep)}` : `step ${step}`;
     const label = typeof rawReading === 'string' ? rawReading : String(rawReading);
     let code = codeOf.get(label);
     if (code === undefined) {
@@ -149,13 +166,13 @@ export function buildRunsTable(input: KeyedRows, options: ReadRunsOptions): Runs
     if (code !== undefined) {
       codeOfRow[row] = code;
     } else if (!isWellFormedText(label)) {
-      throw new InputError(`${source}: reading at run ${quote(runId)} step ${step} must be well-formed Unicode text, got ${quote(label)} with a lone surrogate`);
+      throw new InputError(`${source}: reading at run ${quote(runId)} ${stepForMessage} must be well-formed Unicode text, got ${quote(label)} with a lone surrogate`);
     } else if (unknownAsDropout) {
       codeOfRow[row] = UNKNOWN;
       unknownLabels.set(label, (unknownLabels.get(label) ?? 0) + 1);
     } else {
       throw new InputError(
-        `${source}: reading at run ${quote(runId)} step ${step} must be one of the floor's surfaces ` +
+        `${source}: reading at run ${quote(runId)} ${stepForMessage} must be one of the floor's surfaces ` +
           `(${listForMessage(options.surfaces, 8)}), got ${quote(label)}`,
       );
     }
@@ -169,6 +186,20 @@ export function buildRunsTable(input: KeyedRows, options: ReadRunsOptions): Runs
   const fill = start.slice(0, nRuns);
   const order = new Int32Array(nRows);
   for (let row = 0; row < nRows; row++) order[fill[runOfRow[row]]++] = row;
+
+  // Times to steps: each run's rows sorted by time, step = round((t − t_first) / period).
+  const warnings: string[] = [];
+  let period: number | null = null;
+  if (timeOfRow && timeCol !== undefined) {
+    const mapped = timesToSteps(input, timeCol, timeOfRow, order, start, runIds, options.period);
+    stepOfRow = mapped.steps;
+    period = mapped.period;
+    if (mapped.inferred) {
+      warnings.push(
+        `${source}: period ${formatPeriod(period)} inferred from the spacing of the times in column ${quote(timeCol)} (set it with --period)`,
+      );
+    }
+  }
 
   // Pass 3: per run, sort by step and reject repeats; the steps each run spans, checked against the
   // limits before any run's steps are laid out.
@@ -235,7 +266,18 @@ export function buildRunsTable(input: KeyedRows, options: ReadRunsOptions): Runs
     runs.push({ id: runIds[r], firstStep, nSteps, obs, rows, nDropouts, nGapSteps: nSteps - rowsOfRun.length, nUnknown });
   }
 
-  const warnings: string[] = [];
+  let totalGaps = 0;
+  let totalAll = 0;
+  for (const run of runs) {
+    totalGaps += run.nGapSteps;
+    totalAll += run.nSteps;
+  }
+  if (totalGaps > GAP_WARNING_SHARE * totalAll) {
+    warnings.push(
+      `${source}: ${totalGaps} of ${totalAll} steps (${((100 * totalGaps) / totalAll).toFixed(1)} %) are missing from the table and count as dropouts` +
+        (period !== null ? ` (period ${formatPeriod(period)}; is it right?)` : ''),
+    );
+  }
   if (repaired.size > 0) {
     let total = 0;
     for (const n of repaired.values()) total += n;
@@ -259,6 +301,134 @@ export function buildRunsTable(input: KeyedRows, options: ReadRunsOptions): Runs
     runCol: input.runCol,
     stepCol: input.stepCol,
     readingCol: input.readingCol,
+    ...(timeCol !== undefined && period !== null ? { timeCol, period } : {}),
     warnings,
   };
+}
+
+/**
+ * The period that best fits the times (least squares over all runs, each run with its own start) once
+ * readings are given steps by `rough` (the median spacing). The median alone is biased by dropped
+ * readings (a missing reading doubles a spacing) and its error grows along a run (0.5 % off is half a
+ * period after 100 steps); the fitted slope is not. Steps are assigned from the previous reading
+ * (round of the spacing), so jitter does not accumulate either. Kept when the fit is not usable.
+ */
+function refinePeriod(timeOfRow: Float64Array, order: Int32Array, start: Int32Array, rough: number): number {
+  let sxy = 0;
+  let sxx = 0;
+  for (let r = 0; r + 1 < start.length; r++) {
+    const n = start[r + 1] - start[r];
+    if (n < 2) continue;
+    const t0 = timeOfRow[order[start[r]]];
+    const ks = new Float64Array(n);
+    let k = 0;
+    let kSum = 0;
+    let tSum = 0;
+    for (let i = 0; i < n; i++) {
+      const t = timeOfRow[order[start[r] + i]] - t0;
+      if (i > 0) k += Math.max(1, Math.round((t - (timeOfRow[order[start[r] + i - 1]] - t0)) / rough));
+      ks[i] = k;
+      kSum += k;
+      tSum += t;
+    }
+    const kMean = kSum / n;
+    const tMean = tSum / n;
+    for (let i = 0; i < n; i++) {
+      const dk = ks[i] - kMean;
+      sxy += dk * (timeOfRow[order[start[r] + i]] - t0 - tMean);
+      sxx += dk * dk;
+    }
+  }
+  const fitted = sxy / sxx;
+  return sxx > 0 && fitted > 0 && Math.abs(fitted - rough) < 0.25 * rough ? fitted : rough;
+}
+
+/** Above this share of gap steps (steps missing from the table) among all steps, reading warns. */
+export const GAP_WARNING_SHARE = 0.05;
+
+/**
+ * Maps each row's time to a step: per run, rows sorted by time (stable), step = round((t − t_first) /
+ * period − phase), the phase being the circular mean of the run's readings within a period (so
+ * the first reading's jitter does not shift the run), steps counted from 0 at the first reading. The period is `given` (seconds) or, when absent, the median of the positive spacings between
+ * consecutive readings of the same run over all runs. Two readings of a run rounding to the same step
+ * are an error naming the run and both times (readings are never dropped silently).
+ */
+function timesToSteps(
+  input: KeyedRows,
+  timeCol: string,
+  timeOfRow: Float64Array,
+  order: Int32Array,
+  start: Int32Array,
+  runIds: string[],
+  given: number | undefined,
+): { steps: Float64Array; period: number; inferred: boolean } {
+  const { source, locate } = input;
+  const nRuns = runIds.length;
+  for (let r = 0; r < nRuns; r++) {
+    const rowsOfRun = order.subarray(start[r], start[r + 1]);
+    let sorted = true;
+    for (let k = 1; k < rowsOfRun.length && sorted; k++) sorted = timeOfRow[rowsOfRun[k]] >= timeOfRow[rowsOfRun[k - 1]];
+    if (!sorted) rowsOfRun.sort((a, b) => timeOfRow[a] - timeOfRow[b] || a - b);
+  }
+  let period = given ?? NaN;
+  const inferred = given === undefined;
+  if (inferred) {
+    const spacings = new Float64Array(Math.max(0, order.length - nRuns));
+    let n = 0;
+    for (let r = 0; r < nRuns; r++) {
+      for (let k = start[r] + 1; k < start[r + 1]; k++) {
+        const d = timeOfRow[order[k]] - timeOfRow[order[k - 1]];
+        if (d > 0) spacings[n++] = d;
+      }
+    }
+    if (n === 0) {
+      throw new InputError(
+        `${source}: the period must be given with --period when no run has two readings at different times, got none in column ${quote(timeCol)}`,
+      );
+    }
+    const used = spacings.subarray(0, n).sort();
+    const median = n % 2 === 1 ? used[(n - 1) / 2] : (used[n / 2 - 1] + used[n / 2]) / 2;
+    period = refinePeriod(timeOfRow, order, start, median);
+  }
+  const steps = new Float64Array(timeOfRow.length);
+  const timeText = (row: number) => {
+    const raw = input.stepAt(row);
+    if (input.describeTime && typeof raw === 'number') return input.describeTime(raw);
+    return typeof raw === 'string' ? raw : String(raw);
+  };
+  for (let r = 0; r < nRuns; r++) {
+    const first = timeOfRow[order[start[r]]];
+    // The run's grid phase: the circular mean of the readings' positions within a period, so the
+    // jitter of the first reading does not shift every step of the run.
+    let c = 0;
+    let sn = 0;
+    for (let k = start[r]; k < start[r + 1]; k++) {
+      const angle = 2 * Math.PI * ((timeOfRow[order[k]] - first) / period);
+      c += Math.cos(angle);
+      sn += Math.sin(angle);
+    }
+    const phase = c === 0 && sn === 0 ? 0 : Math.atan2(sn, c) / (2 * Math.PI);
+    const stepAt = (row: number) => Math.round((timeOfRow[row] - first) / period - phase);
+    const base = stepAt(order[start[r]]);
+    let lastStep = -1;
+    for (let k = start[r]; k < start[r + 1]; k++) {
+      const row = order[k];
+      const step = stepAt(row) - base;
+      if (!Number.isSafeInteger(step)) {
+        throw new InputError(
+          `${source}: times of run ${quote(runIds[r])} must lie within a safe number of periods of the run's first time, got ${timeText(row)} at ${locate(row)} for period ${formatPeriod(period)}`,
+        );
+      }
+      if (step === lastStep) {
+        const prev = order[k - 1];
+        throw new InputError(
+          `${source}: readings of run ${quote(runIds[r])} must fall on different steps of period ${formatPeriod(period)}, ` +
+            `got times ${timeText(prev)} (${locate(prev)}) and ${timeText(row)} (${locate(row)}) both on step ${step} (is --period right?)`,
+        );
+      }
+      steps[row] = step;
+      lastStep = step;
+    }
+  }
+  return { steps, period, inferred };
 }

@@ -3,6 +3,7 @@ import { InputError } from '../errors.js';
 
 /** Fails with one line when an input file is missing or unreadable (used before any work starts). */
 export async function checkReadable(path: string, what: string): Promise<void> {
+  if (path === '-') return; // standard input
   try {
     await access(path, constants.R_OK);
   } catch (err) {

@@ -35,6 +35,9 @@ export function columnsFromBytes(bytes: Uint8Array, format: TableFormat, source:
       locate: (row) => `line ${csv.lineOfRow(row)}`,
     };
   }
+  if (format === 'parquet') {
+    throw new InputError(`${source}: a run summary or changes table for the report must be CSV or Arrow, got Parquet (write it as .csv or .arrow)`);
+  }
   let table;
   try {
     table = tableFromIPC(bytes);

@@ -8,6 +8,6 @@ import { streamDigests } from './read-input-file.js';
  */
 export async function fileDigest(path: string): Promise<string> {
   const known = streamDigests.get(path);
-  if (known !== undefined && !(await stat(path).catch(() => null))?.isFile()) return known;
+  if (known !== undefined && (path === '-' || !(await stat(path).catch(() => null))?.isFile())) return known;
   return `sha256:${createHash('sha256').update(await readFile(path)).digest('hex')}`;
 }

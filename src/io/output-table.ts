@@ -21,4 +21,6 @@ export interface OutputColumn {
 export interface OutputTable {
   nRows: number;
   columns: OutputColumn[];
+  /** Key-value metadata stored in Arrow and Parquet schemas (CSV has none). */
+  metadata?: Record<string, string>;
 }

@@ -2,10 +2,11 @@ import { dirname, extname, isAbsolute, relative, resolve } from 'node:path';
 import { InputError, quote } from '../errors.js';
 import { parseJsonDocument } from './parse-json-document.js';
 import { checkKeys } from './json-fields.js';
+import { parsePeriod } from './parse-time.js';
 import { PIPELINE_FORMAT, type PipelineFile } from './pipeline-file.js';
 
 const TOP_KEYS = ['format', 'floor', 'runs', 'columns', 'model', 'fit', 'compare', 'decode', 'out'];
-const COLUMN_KEYS = ['run', 'step', 'reading', 'unknownReadings', 'movedCol', 'headingCol'];
+const COLUMN_KEYS = ['run', 'step', 'reading', 'unknownReadings', 'movedCol', 'headingCol', 'timeCol', 'period'];
 export const PIPELINE_FIT_KEYS = [
   'restarts', 'holdout', 'holdoutCol', 'seed', 'transitions', 'dwell', 'hit', 'priorStrength', 'transitionPriorStrength',
   'maxIter', 'tol', 'workers', 'finalPass', 'from',
@@ -15,7 +16,7 @@ export const PIPELINE_COMPARE_KEYS = [
 ];
 const DECODE_KEYS = ['lowConfidence', 'surprisingBits'];
 const OUT_KEYS = ['dir', 'model', 'annotated', 'summary', 'report', 'changes', 'floor'];
-const TABLE_EXTENSIONS = ['.csv', '.arrow', '.feather', '.arrows'];
+const TABLE_EXTENSIONS = ['.csv', '.arrow', '.feather', '.arrows', '.parquet'];
 /** The extensions the tool writes for each `out` entry (checked before anything is read). */
 const OUT_EXTENSIONS: Record<string, string[]> = {
   model: ['.json'],
@@ -50,11 +51,17 @@ export function parsePipeline(text: string, source: string): PipelineFile {
   if (root.columns !== undefined) {
     const c = object(root.columns, '"columns"', fail);
     keys(c, COLUMN_KEYS, '"columns"', fail);
-    for (const k of ['run', 'step', 'reading', 'movedCol', 'headingCol'] as const) {
+    for (const k of ['run', 'step', 'reading', 'movedCol', 'headingCol', 'timeCol'] as const) {
       if (c[k] !== undefined && (typeof c[k] !== 'string' || !c[k])) fail(`"columns.${k}" must be a column name, got ${quote(c[k])}`);
     }
     if (c.unknownReadings !== undefined && c.unknownReadings !== 'error' && c.unknownReadings !== 'dropout') {
       fail(`"columns.unknownReadings" must be "error" or "dropout", got ${quote(c.unknownReadings)}`);
+    }
+    if (c.period !== undefined) {
+      if (c.timeCol === undefined) fail(`"columns.period" must come with "columns.timeCol", got ${quote(c.period)} alone`);
+      if (typeof c.period !== 'string' || Number.isNaN(parsePeriod(c.period))) {
+        fail(`"columns.period" must be a duration > 0 in ms or s (e.g. "100ms", "0.5s"), got ${quote(c.period)}`);
+      }
     }
     columns = c as PipelineFile['columns'];
   }

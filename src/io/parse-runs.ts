@@ -1,6 +1,7 @@
 import { DataType, Precision, tableFromIPC, type Data, type Table, type Vector } from 'apache-arrow';
 import { InputError, quote } from '../errors.js';
 import { buildRunsTable } from './build-runs-table.js';
+import { registerArrowCodecs } from './arrow-codecs.js';
 import { MAX_TABLE_COLUMNS, parseCsv, type CsvColumn } from './parse-csv.js';
 import { resolveKeyColumns } from './resolve-key-columns.js';
 import type { InputColumn, ReadRunsOptions, RunsTable } from './runs-table.js';
@@ -16,7 +17,7 @@ export function runsFromCsv(text: string, source: string, options: ReadRunsOptio
     return { name, kind: 'utf8', get: (row: number) => column.get(row) };
   });
   const keys = resolveKeyColumns(csv.header, options, source);
-  const [run, step, reading] = [keys.runCol, keys.stepCol, keys.readingCol].map(
+  const [run, step, reading] = [keys.runCol, keys.timeCol ?? keys.stepCol, keys.readingCol].map(
     (name) => csv.columns[csv.header.indexOf(name)],
   );
   return buildRunsTable(
@@ -30,6 +31,7 @@ export function runsFromCsv(text: string, source: string, options: ReadRunsOptio
         const value = step.digits(row);
         return value >= 0 ? value : step.get(row);
       },
+      ...(keys.timeCol !== undefined ? { timeCol: keys.timeCol } : {}),
       readingAt: csvText(reading, options.surfaces),
       locate: (row) => `line ${csv.lineOfRow(row)}`,
     },
@@ -66,10 +68,21 @@ export function runsFromArrow(bytes: Uint8Array, source: string, options: ReadRu
   const vectors = names.map((_, j) => table.getChildAt(j) as Vector);
   const columns = vectors.map((vector, j) => arrowColumn(names[j], vector));
   const keys = resolveKeyColumns(names, options, source);
-  const [runs, steps, readings] = [keys.runCol, keys.stepCol, keys.readingCol].map((name) =>
-    keyValues(vectors[names.indexOf(name)], name === keys.readingCol ? options.surfaces : [], (row) => {
-      throw new InputError(`${source}: column ${quote(name)} at row ${row + 1} must be UTF-8 text, got bytes that are not valid UTF-8`);
-    }),
+  const stepName = keys.timeCol ?? keys.stepCol;
+  const stepVector = vectors[names.indexOf(stepName)];
+  const stepType = stepVector.type as DataType;
+  const isTimeType = DataType.isTimestamp(stepType) || DataType.isDate(stepType);
+  if (keys.timeCol === undefined && isTimeType) {
+    throw new InputError(
+      `${source}: the step column ${quote(stepName)} must hold step numbers, got an Arrow ${DataType.isDate(stepType) ? 'date' : 'timestamp'} column (use --time-col ${stepName}, with --period)`,
+    );
+  }
+  const [runs, steps, readings] = [keys.runCol, stepName, keys.readingCol].map((name) =>
+    name === stepName && isTimeType
+      ? timeValues(stepVector)
+      : keyValues(vectors[names.indexOf(name)], name === keys.readingCol ? options.surfaces : [], (row) => {
+          throw new InputError(`${source}: column ${quote(name)} at row ${row + 1} must be UTF-8 text, got bytes that are not valid UTF-8`);
+        }),
   );
   return buildRunsTable(
     {
@@ -80,15 +93,51 @@ export function runsFromArrow(bytes: Uint8Array, source: string, options: ReadRu
       runAt: runs,
       stepAt: steps,
       readingAt: readings,
+      ...(keys.timeCol !== undefined ? { timeCol: keys.timeCol } : {}),
+      ...(isTimeType ? { describeTime: isoText } : {}),
       locate: (row) => `row ${row + 1}`,
     },
     options,
   );
 }
 
+/**
+ * An Arrow timestamp or date column as seconds since the epoch (null for a null): timestamps from their
+ * stored integers and unit (exact below the millisecond), dates through their millisecond value.
+ */
+function timeValues(vector: Vector): (row: number) => unknown {
+  const type = vector.type as DataType;
+  if (!DataType.isTimestamp(type)) {
+    return (row) => {
+      const value = vector.get(row) as unknown;
+      if (value === null || value === undefined) return null;
+      return (value instanceof Date ? value.getTime() : Number(value)) / 1000;
+    };
+  }
+  const perSecond = [1n, 1000n, 1_000_000n, 1_000_000_000n][type.unit];
+  return chunked(vector, (data, first) => {
+    const values = data.values as unknown;
+    if (!(values instanceof BigInt64Array)) return (index) => (data.getValid(index) ? Number(vector.get(first + index)) / 1000 : null);
+    return (index) => {
+      if (!data.getValid(index)) return null;
+      const raw = values[index];
+      return Number(raw / perSecond) + Number(raw % perSecond) / Number(perSecond);
+    };
+  });
+}
+
+/** Seconds since the epoch as ISO 8601 UTC text, to the microsecond when needed. */
+function isoText(seconds: number): string {
+  const ms = Math.floor(seconds * 1000);
+  const micros = Math.round((seconds * 1000 - ms) * 1000);
+  const text = new Date(ms).toISOString();
+  return micros > 0 && micros < 1000 ? text.replace('Z', `${String(micros).padStart(3, '0')}Z`) : text;
+}
+
 function decodeArrow(bytes: Uint8Array, source: string): Table {
   if (bytes.length === 0) throw new InputError(`${source}: file must be Arrow IPC (file or stream), got an empty file`);
   let table: Table;
+  registerArrowCodecs();
   try {
     table = tableFromIPC(bytes);
   } catch (err) {

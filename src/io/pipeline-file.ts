@@ -4,7 +4,7 @@ export interface PipelineFile {
   floor: string;
   runs: string[];
   /** Key columns of the runs tables (our addition; defaults run/step/reading). */
-  columns: { run?: string; step?: string; reading?: string; unknownReadings?: 'error' | 'dropout'; movedCol?: string; headingCol?: string };
+  columns: { run?: string; step?: string; reading?: string; unknownReadings?: 'error' | 'dropout'; movedCol?: string; headingCol?: string; timeCol?: string; period?: string };
   /** A saved model to decode with instead of fitting (decode-only pipelines). */
   model: string | null;
   /** Fit options in camelCase (`fit` flags), or null to skip fitting. */

@@ -34,15 +34,22 @@ export async function planOutputs(where: string, inputs: NamedPath[], outputs: N
   const inputIds = new Map<string, NamedPath>();
   const inputReal = new Map<string, NamedPath>();
   for (const input of inputs) {
-    if (!input.path) continue;
+    if (!input.path || input.path === '-') continue;
     const st = await statOrNull(input.path);
     if (!st) continue;
     inputIds.set(idOf(st), input);
     inputReal.set(await realpath(input.path).catch(() => resolve(input.path!)), input);
   }
   const seen: Resolved[] = [];
+  let toStdout: NamedPath | null = null;
   for (const output of outputs) {
     if (!output.path) continue;
+    if (output.path === '-') {
+      // Standard output: at most one output may go there.
+      if (toStdout) throw new InputError(`${where}: ${output.what} must differ from every other output, got -, standard output like ${toStdout.what}`);
+      toStdout = output;
+      continue;
+    }
     const r = await resolveOutput(where, output);
     const sameInput = (r.id ? inputIds.get(r.id) : undefined) ?? inputReal.get(r.real);
     if (sameInput) {

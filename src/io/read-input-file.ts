@@ -30,6 +30,7 @@ export const streamDigests = new Map<string, string>();
  * ends) is read in chunks and refused as soon as it passes the cap, so memory never grows past it.
  */
 export async function readInputFile(path: string, maxBytes: number = MAX_TABLE_BYTES, what = 'file'): Promise<Uint8Array> {
+  if (path === '-') return readStandardInput(maxBytes, what);
   let handle: FileHandle | undefined;
   try {
     handle = await open(path, 'r');
@@ -91,4 +92,28 @@ function describeReadFailure(err: unknown, what: string): string {
     default:
       return `${what} must be readable, got ${code ?? 'an error'} (${String((err as Error).message).replace(/\s+/g, ' ')})`;
   }
+}
+
+let stdinRead = false;
+
+/**
+ * Standard input (`-`), read once to its end (at most `maxBytes`); its digest is kept like a FIFO's.
+ * A second read in the same command is an error (the bytes are gone).
+ */
+async function readStandardInput(maxBytes: number, what: string): Promise<Uint8Array> {
+  if (stdinRead) throw new InputError(`-: standard input must be named once, got it again (it can be read only once)`);
+  stdinRead = true;
+  const chunks: Buffer[] = [];
+  let total = 0;
+  for await (const chunk of process.stdin as AsyncIterable<Buffer>) {
+    total += chunk.length;
+    if (total > maxBytes) {
+      process.stdin.destroy();
+      throw tooLarge('-', maxBytes, 'more', what);
+    }
+    chunks.push(chunk);
+  }
+  const bytes = Buffer.concat(chunks, total);
+  streamDigests.set('-', `sha256:${createHash('sha256').update(bytes).digest('hex')}`);
+  return bytes;
 }

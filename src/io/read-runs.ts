@@ -1,15 +1,17 @@
 import { decodeUtf8 } from './decode-utf8.js';
 import { runsFromArrow, runsFromCsv } from './parse-runs.js';
+import { runsFromParquet } from './parse-parquet-runs.js';
 import { MAX_CSV_BYTES, readInputFile } from './read-input-file.js';
 import type { ReadRunsOptions, RunsTable } from './runs-table.js';
 import { tableFormatOf } from './table-format-of.js';
 
 /**
  * Reads a runs table, the format chosen by extension: `.csv`, `.arrow` / `.feather` (Arrow IPC file),
- * `.arrows` (Arrow IPC stream). Every failure is a one-line InputError naming `path`.
+ * `.arrows` (Arrow IPC stream), `.parquet`. Every failure is a one-line InputError naming `path`.
  */
 export async function readRuns(path: string, options: ReadRunsOptions): Promise<RunsTable> {
   const format = tableFormatOf(path);
+  if (format === 'parquet') return runsFromParquet(await readInputFile(path), path, options);
   if (format !== 'csv') return runsFromArrow(await readInputFile(path), path, options);
   return runsFromCsv(await readText(path), path, options);
 }

@@ -10,15 +10,17 @@ export function resolveKeyColumns(
   names: readonly string[],
   options: ReadRunsOptions,
   source: string,
-): { runCol: string; stepCol: string; readingCol: string } {
+): { runCol: string; stepCol: string; readingCol: string; timeCol?: string } {
   const picked = {
     runCol: options.runCol ?? 'run',
     stepCol: options.stepCol ?? 'step',
     readingCol: options.readingCol ?? 'reading',
+    ...(options.timeCol !== undefined ? { timeCol: options.timeCol } : {}),
   };
+  // With a time column, steps come from times: the step column need not exist.
   const roles = [
     ['run', picked.runCol, '--run-col'],
-    ['step', picked.stepCol, '--step-col'],
+    picked.timeCol !== undefined ? ['time', picked.timeCol, '--time-col'] : ['step', picked.stepCol, '--step-col'],
     ['reading', picked.readingCol, '--reading-col'],
   ] as const;
   for (const [role, name, flag] of roles) {

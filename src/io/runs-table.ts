@@ -53,6 +53,9 @@ export interface RunsTable {
   runCol: string;
   stepCol: string;
   readingCol: string;
+  /** The time column steps were mapped from, and the period in seconds (`timeCol` option only). */
+  timeCol?: string;
+  period?: number;
   /** Non-fatal findings (e.g. unknown readings turned into dropouts), for the CLI to print. */
   warnings: string[];
 }
@@ -66,6 +69,13 @@ export interface ReadRunsOptions {
   stepCol?: string;
   /** @default 'reading' */
   readingCol?: string;
+  /**
+   * A time column to map to steps (`--time-col`) instead of a step column: step = round((t − t_first) /
+   * period) per run. Numbers are seconds; text is numbers or ISO 8601; Arrow timestamps and dates.
+   */
+  timeCol?: string;
+  /** The sampling period in seconds (`--period`); inferred from the median spacing when absent. */
+  period?: number;
   /** @default 'error' */
   unknownReadings?: 'error' | 'dropout';
   /**

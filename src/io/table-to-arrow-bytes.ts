@@ -38,7 +38,7 @@ export function tableToArrowBytes(table: OutputTable, stream: boolean, where = '
     fields.push(new Field(column.name, data.type, true));
     children.push(data);
   }
-  const schema = new Schema(fields);
+  const schema = new Schema(fields, new Map(Object.entries(table.metadata ?? {})));
   const batch = new RecordBatch(
     schema,
     makeData({ type: new Struct(fields), length: table.nRows, nullCount: 0, children }),

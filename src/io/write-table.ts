@@ -1,5 +1,6 @@
 import type { OutputTable } from './output-table.js';
-import { tableFormatOf } from './table-format-of.js';
+import { STDIO_PATH, tableFormatOf, type TableFormat } from './table-format-of.js';
+import { tableToParquetBytes } from './table-to-parquet-bytes.js';
 import { tableToArrowBytes } from './table-to-arrow-bytes.js';
 import { csvChunks } from './table-to-csv.js';
 import { writeFileAtomic } from './write-atomic.js';
@@ -11,6 +12,10 @@ import { writeFileAtomic } from './write-atomic.js';
  */
 export async function writeTable(path: string, table: OutputTable): Promise<void> {
   const format = tableFormatOf(path);
+  if (path === STDIO_PATH) {
+    await writeStandardOutput(format === 'csv' ? csvChunks(table, 8192, path) : [binaryBytes(table, format, path)]);
+    return;
+  }
   if (format === 'csv') {
     const chunks = csvChunks(table, 8192, path);
     // Draw the header first so a bad table fails before a temporary file is made.
@@ -18,10 +23,25 @@ export async function writeTable(path: string, table: OutputTable): Promise<void
     await writeFileAtomic(path, prepend(header.done ? '' : header.value, chunks));
     return;
   }
-  await writeFileAtomic(path, tableToArrowBytes(table, format === 'arrow-stream', path));
+  await writeFileAtomic(path, binaryBytes(table, format, path));
+}
+
+function binaryBytes(table: OutputTable, format: TableFormat, path: string): Uint8Array {
+  return format === 'parquet' ? tableToParquetBytes(table, path, table.metadata) : tableToArrowBytes(table, format === 'arrow-stream', path);
 }
 
 function* prepend(first: string, rest: Iterator<string>): Generator<string> {
   yield first;
   for (let next = rest.next(); !next.done; next = rest.next()) yield next.value;
+}
+
+/**
+ * Writes pieces to standard output (`-`), waiting for the pipe to drain; not atomic (a reader sees the
+ * table as it comes). Problems with the table are found before the first piece (CSV: its header).
+ */
+async function writeStandardOutput(pieces: Iterable<string | Uint8Array>): Promise<void> {
+  const out = process.stdout;
+  for (const piece of pieces) {
+    if (!out.write(piece)) await new Promise<void>((resolve) => out.once('drain', () => resolve()));
+  }
 }

@@ -95,7 +95,7 @@ export async function checkInputs(floorPath: string, runPaths: string[], keys: K
     }
     const tiny = loaded.tables.reduce((k, table) => k + table.runs.filter((r) => r.nSteps < 2).length, 0);
     if (tiny) warnings.push(`${tiny} run(s) have a single step: they say little about movement`);
-    if (gapSteps) warnings.push(`${gapSteps} step(s) are missing from the runs (gaps in "step"); they are decoded as dropouts`);
+    if (gapSteps) warnings.push(`${gapSteps} step(s) are missing from the runs (gaps in "${keys.timeCol ?? keys.stepCol}"); they are decoded as dropouts`);
   }
   return { floorFile: floorPath, name: floor.name, floor: analysis, nStartCells: floor.cells.filter((c) => c.start).length, georeference: floor.georeference ?? null, runs, warnings };
 }

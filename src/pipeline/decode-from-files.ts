@@ -12,6 +12,12 @@ import type { KeyColumns } from './key-columns.js';
 import { loadRuns } from './load-runs.js';
 import { decodeRuns, type DecodedTables } from './decode-runs.js';
 import { wasmFallbackWarning } from './wasm-fallback-warning.js';
+import { fileDigest } from '../io/file-digest.js';
+import { TOOL_VERSION } from '../version.js';
+
+/** The caution stored in Arrow/Parquet metadata; the same words as the note the CLI prints (test/cli/datatools-metadata.test.ts). */
+export const SAFETY_CAUTION =
+  'Decoded positions are statistical estimates, not a safety function: never use them for collision avoidance or safety decisions; robot safety rests on the robot\'s own certified systems and local codes.';
 
 export interface DecodeConfig {
   model: string;
@@ -72,6 +78,17 @@ export async function decodeFromFiles(config: DecodeConfig, preloaded?: ModelFil
     warnings.push(`${decoded.impossibleRuns.length} run(s) are impossible under the model and were not decoded: ${decoded.impossibleRuns.slice(0, 10).join(', ')}`);
   }
   warnings.push(...wasmFallbackWarning());
+  // Arrow and Parquet outputs describe themselves: tool version, model digest, thresholds, the caution.
+  const metadata: Record<string, string> = {
+    'underfoot.version': TOOL_VERSION,
+    'underfoot.model_sha256': preloaded ? '' : await fileDigest(config.model),
+    'underfoot.thresholds': JSON.stringify(config.thresholds),
+    'underfoot.caution': SAFETY_CAUTION,
+    ...(loaded.tables[0].timeCol !== undefined ? { 'underfoot.time': JSON.stringify({ timeCol: loaded.tables[0].timeCol, periodSeconds: loaded.tables[0].period }) } : {}),
+  };
+  if (!metadata['underfoot.model_sha256']) delete metadata['underfoot.model_sha256'];
+  decoded.annotated.metadata = { ...metadata, 'underfoot.table': 'annotated' };
+  decoded.summary.metadata = { ...metadata, 'underfoot.table': 'run summary' };
   if (!skipAnnotated) await writeTable(config.out, decoded.annotated);
   if (config.summary) await writeTable(config.summary, decoded.summary);
   return { decoded, warnings, nRuns: loaded.runs.length, nRows: decoded.annotated.nRows };

@@ -1,11 +1,21 @@
 import { nonNegative, unitInterval } from './tidy-number.js';
+import { InputError, quote } from '../errors.js';
 import { decodeMoveRun } from '../decode/decode-move-run.js';
 import type { MoveSteps } from '../kernels/move-chain.js';
 import type { HmmModel } from '../model/hmm-model.js';
 import { chainFromModel } from '../model/chain-from-model.js';
 import { logChain } from '../decode/log-chain.js';
 import { decodeRun } from '../decode/decode-run.js';
-import { summarizeRun, flagText, type RunSummary } from '../decode/summarize-run.js';
+import { summarizeRun, flagText, FLAG_DROPOUT, FLAG_IMPOSSIBLE, FLAG_LOW_CONFIDENCE, FLAG_SURPRISING, type RunSummary } from '../decode/summarize-run.js';
+import { Bool } from 'apache-arrow';
+
+/** The boolean flag columns of the annotated table and the flag bit each shows (after the position columns). */
+export const FLAG_COLUMNS: Array<[string, number]> = [
+  ['flag_dropout', FLAG_DROPOUT],
+  ['flag_low_confidence', FLAG_LOW_CONFIDENCE],
+  ['flag_surprising', FLAG_SURPRISING],
+  ['flag_impossible', FLAG_IMPOSSIBLE],
+];
 import { positionLayout } from '../decode/position-layout.js';
 import { summarizeZones, type ZoneSummary } from '../decode/summarize-zones.js';
 import { positionColumns } from './position-columns.js';
@@ -36,6 +46,7 @@ export function decodeRuns(
   /** Odometry bins of run `run` of table `table`, when the runs carry movement columns. */
   movesOf?: (table: number, run: number) => MoveSteps | undefined,
 ): DecodedTables {
+  checkStepColumnFree(tables);
   const chain = chainFromModel(model);
   const log = logChain(chain);
   const layout = positionLayout(model);
@@ -100,10 +111,26 @@ export function decodeRuns(
     }
     return { name: c.name, kind: 'passthrough', arrowType: c.arrowType, get };
   });
+  // Steps mapped from times (--time-col) are written as their own int32 column, named by --step-col.
+  const timeCol = tables[0].timeCol;
+  const stepColumns: OutputColumn[] = [];
+  if (timeCol !== undefined) {
+    const stepName = tables[0].stepCol;
+    const stepOf = new Int32Array(nRows).fill(-1);
+    let first = 0;
+    for (const table of tables) {
+      for (const run of table.runs) {
+        for (let t = 0; t < run.rows.length; t++) if (run.rows[t] >= 0) stepOf[first + run.rows[t]] = run.firstStep + t;
+      }
+      first += table.nRows;
+    }
+    stepColumns.push({ name: stepName, kind: 'int32', get: (row) => stepOf[row] });
+  }
   const annotated: OutputTable = {
     nRows,
     columns: [
       ...inputColumns,
+      ...stepColumns,
       { name: 'path_cell', kind: 'utf8', get: cell(pathCell) },
       { name: 'path_p', kind: 'float64', get: num(pathP) },
       { name: 'likely_cell', kind: 'utf8', get: cell(likelyCell) },
@@ -112,6 +139,8 @@ export function decodeRuns(
       { name: 'surprise_bits', kind: 'float64', get: num(surprise) },
       { name: 'flag', kind: 'utf8', get: (row) => flagText(flags[row]) },
       ...positionColumns(model, layout, { pathCell, likelyZone, zoneP, meanLevel, meanX, meanY, spread }),
+      // Each flag as its own boolean column (the `flag` text kept above), for tools that filter on booleans.
+      ...FLAG_COLUMNS.map(([name, bit]): OutputColumn => ({ name, kind: 'passthrough', arrowType: new Bool(), get: (row) => (flags[row] & bit) !== 0 })),
     ],
   };
   const finite = (v: number) => (Number.isFinite(v) ? v : null);
@@ -145,4 +174,19 @@ function spanning(tables: RunsTable[], k: number): (row: number) => string | num
     while (row >= starts[i + 1]) i++;
     return tables[i].columns[k].get(row - starts[i]);
   };
+}
+
+/**
+ * With --time-col the annotated table gains the mapped steps as a column named by --step-col: no runs
+ * table may already have a column of that name (checked before any decoding).
+ */
+export function checkStepColumnFree(tables: RunsTable[]): void {
+  const timed = tables.find((t) => t.timeCol !== undefined);
+  if (!timed) return;
+  const clash = tables.find((t) => t.columns.some((c) => c.name === t.stepCol));
+  if (clash) {
+    throw new InputError(
+      `${clash.source}: the step column written for --time-col must be a new column, got ${quote(clash.stepCol)} already in the runs table (name another with --step-col)`,
+    );
+  }
 }

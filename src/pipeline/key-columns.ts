@@ -7,6 +7,9 @@ export interface KeyColumns {
   /** Odometry columns (`--moved-col`, `--heading-col`); absent = the default names, used when present. */
   movedCol?: string;
   headingCol?: string;
+  /** A time column mapped to steps (`--time-col`) and its period in seconds (`--period`; inferred when absent). */
+  timeCol?: string;
+  period?: number;
 }
 
 export const DEFAULT_KEY_COLUMNS: KeyColumns = { runCol: 'run', stepCol: 'step', readingCol: 'reading', unknownReadings: 'error' };

@@ -70,7 +70,7 @@ export async function reportToFile(config: ReportConfig, preloaded?: ModelFile):
   }
   const model = modelFile.model;
   const annotated = config.annotated
-    ? await readRuns(config.annotated, { surfaces: model.surfaces, runCol: config.keys.runCol, stepCol: config.keys.stepCol, readingCol: config.keys.readingCol, unknownReadings: config.keys.unknownReadings })
+    ? await readRuns(config.annotated, { surfaces: model.surfaces, runCol: config.keys.runCol, stepCol: config.keys.stepCol, readingCol: config.keys.readingCol, unknownReadings: config.keys.unknownReadings, timeCol: config.keys.timeCol, period: config.keys.period })
     : null;
   const summary = config.summary
     ? runRowsFromTable(columnsFromBytes(await readInputFile(config.summary), tableFormatOf(config.summary), config.summary))

@@ -12,6 +12,7 @@ import { reportToFile } from './report-to-file.js';
 import { compareFromFiles, type CompareOutcome, type CompareProgress } from './compare-from-files.js';
 import { resolveCompareOptions } from './resolve-compare-options.js';
 import { InputError } from '../errors.js';
+import { parsePeriod } from '../io/parse-time.js';
 
 export interface PipelineOutcome {
   fit: FitOutcome | null;
@@ -40,6 +41,8 @@ export async function runPipeline(
     unknownReadings: p.columns.unknownReadings ?? 'error',
     ...(p.columns.movedCol ? { movedCol: p.columns.movedCol } : {}),
     ...(p.columns.headingCol ? { headingCol: p.columns.headingCol } : {}),
+    ...(p.columns.timeCol ? { timeCol: p.columns.timeCol } : {}),
+    ...(p.columns.period ? { period: parsePeriod(p.columns.period) } : {}),
   };
   const fitOpts = p.fit ? resolveFitOptions({ ...p.fit, ...(overrides.workers ? { workers: overrides.workers } : {}) }, p.source, (k) => `"fit.${k}"`) : null;
   const compareOpts = p.compare

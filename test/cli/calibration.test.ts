@@ -52,7 +52,7 @@ describe('calibration on a building the default movement model does not describe
   // from the truth keeps them apart and lands within 0.5 points (measured with 260 runs; DEVELOPERS.md,
   // "Calibration"). The test holds the measured 3 points so that a regression shows.
   it('with the default options likely_p is calibrated (ECE ≤ 0.04) and exact-cell accuracy is within 3 points of the true model', () => {
-    const fit = runCli(['fit', '--floor', p('floor.json'), '--runs', p('runs.csv'), '--out', p('model.json'), '--workers', '1', '-q']);
+    const fit = runCli(['fit', '--floor', p('floor.json'), '--runs', p('runs.csv'), '--out', p('model.json'), '--workers', '1']);
     expect(fit.code, fit.stderr).toBe(0);
     expect(fit.stdout).toMatch(/forecast calibration on the held-out runs/);
     for (const [model, out] of [['model.json', 'fitted.csv'], ['truth.json', 'true.csv']]) {

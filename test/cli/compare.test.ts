@@ -26,7 +26,7 @@ describe('compare', () => {
   it('writes the changes table, the re-fitted model and an updated floor, and prints a caution', () => {
     const r = runCli([
       'compare', '--model', p('old-model.json'), '--floor', p('floor.json'), '--runs', p('new.csv'), '--out', p('changes.csv'),
-      '--refit', p('refit.json'), '--write-floor', p('floor-after.json'), '--workers', '1', '--null-draws', '3', '--quiet',
+      '--refit', p('refit.json'), '--write-floor', p('floor-after.json'), '--workers', '1', '--null-draws', '3',
     ]);
     expect(r.code, r.stderr).toBe(0);
     expect(r.stdout).toContain('not an inspection');
@@ -84,7 +84,7 @@ describe('compare', () => {
         out: { dir: 'refit-out', changes: 'changes.csv', model: 'model.json', floor: 'floor.json', summary: 'runs.csv', report: 'report.html' },
       }),
     );
-    const r = runCli(['run', p('refit-pipeline.json'), '--quiet']);
+    const r = runCli(['run', p('refit-pipeline.json')]);
     expect(r.code, r.stderr).toBe(0);
     expect(r.stdout).toContain('tested cells changed at false-discovery rate 0.1');
     expect(r.stdout).toContain('not an inspection');

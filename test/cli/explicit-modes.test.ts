@@ -13,7 +13,7 @@ for (const f of ['floor.json', 'runs.csv']) copyFileSync(fixture(f), tmp.path(f)
 afterAll(() => tmp.remove());
 
 const fit = (mode: string, extra: string[] = []) =>
-  runCli(['fit', '--floor', 'floor.json', '--runs', 'runs.csv', '--out', `model-${mode}.json`, '--restarts', '3', '--workers', '1', '--transitions', mode, '--max-iter', '60', '-q', ...extra], tmp.dir);
+  runCli(['fit', '--floor', 'floor.json', '--runs', 'runs.csv', '--out', `model-${mode}.json`, '--restarts', '3', '--workers', '1', '--transitions', mode, '--max-iter', '60', ...extra], tmp.dir);
 
 /** The model file without the record's additive `predictiveCalibration` key, formatted as before. */
 function withoutCalibration(text: string): string {

@@ -94,7 +94,7 @@ describe('movement (wheel odometry) through the built command', () => {
   });
 
   it('--transitions learned ignores movement columns with a warning', () => {
-    const r = runCli(['fit', '--floor', p('floor.json'), '--runs', p('odo.csv'), '--out', p('learned.json'), '--transitions', 'learned', '--restarts', '1', '--max-iter', '5', '--workers', '1', '-q']);
+    const r = runCli(['fit', '--floor', p('floor.json'), '--runs', p('odo.csv'), '--out', p('learned.json'), '--transitions', 'learned', '--restarts', '1', '--max-iter', '5', '--workers', '1']);
     expect(r.code, r.stderr).toBe(0);
     expect(r.stderr + r.stdout).toMatch(/odometry columns \(moved, heading\) are ignored with --transitions learned/);
     expect(parseModel(readFileSync(p('learned.json'), 'utf8'), 'learned.json').model.movement).toBeUndefined();

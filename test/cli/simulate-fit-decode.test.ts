@@ -48,7 +48,7 @@ function viterbiAccuracy(annotatedCsv: string): number {
 
 describe('simulate → fit → decode through the built command', () => {
   it('fit recovers the true emission rows (mean total variation ≤ 0.05 on cells with ≥ 200 expected readings)', () => {
-    const fit = runCli(['fit', '--floor', p('floor.json'), '--runs', p('runs.csv'), '--out', p('model.json'), '--restarts', '3', '--workers', '1', '--quiet']);
+    const fit = runCli(['fit', '--floor', p('floor.json'), '--runs', p('runs.csv'), '--out', p('model.json'), '--restarts', '3', '--workers', '1']);
     expect(fit.code, fit.stderr).toBe(0);
     expect(fit.stdout).toContain('chosen: restart');
     const model = parseModel(readFileSync(p('model.json'), 'utf8'), 'model.json').model;
@@ -88,12 +88,20 @@ describe('simulate → fit → decode through the built command', () => {
     const input = parseCsv(readFileSync(p('runs.csv'), 'utf8'), 'runs.csv');
     expect(ann.header).toEqual([
       ...input.header, 'path_cell', 'path_p', 'likely_cell', 'likely_p', 'entropy_bits', 'surprise_bits', 'flag',
-      'path_zone', 'likely_zone', 'zone_p', 'path_x', 'path_y', 'path_level', 'mean_x', 'mean_y', 'spread_m', 'mean_level',
+      'path_zone', 'likely_zone', 'zone_p', 'path_x', 'path_y', 'path_level', 'mean_x', 'mean_y', 'spread_m', 'mean_level', 'flag_dropout', 'flag_low_confidence', 'flag_surprising', 'flag_impossible',
     ]);
     expect(ann.nRows).toBe(input.nRows);
     for (let c = 0; c < input.header.length; c++) expect(ann.columns[c].toArray()).toEqual(input.columns[c].toArray());
     const flags = new Set(ann.columns[ann.header.indexOf('flag')].toArray());
     expect(flags.has('dropout') || [...flags].some((f) => f?.includes('dropout'))).toBe(true);
+    // Each flag's boolean column says exactly whether the flag text names it.
+    const text = ann.columns[ann.header.indexOf('flag')].toArray();
+    for (const name of ['dropout', 'low_confidence', 'surprising', 'impossible']) {
+      const column = ann.columns[ann.header.indexOf(`flag_${name}`)].toArray();
+      const expected = text.map((f) => String((f ?? '').split('+').includes(name.replace('_', '-'))));
+      expect(column).toEqual(expected);
+    }
+    expect(ann.columns[ann.header.indexOf('flag_low_confidence')].toArray()).toContain('true');
     const summary = parseCsv(readFileSync(p('summary.csv'), 'utf8'), 'summary.csv');
     expect(summary.header).toEqual([
       'run', 'steps', 'dropouts', 'split', 'loglik', 'loglik_per_reading', 'path_logprob', 'mean_path_p', 'low_confidence_steps', 'surprising_steps',

@@ -93,7 +93,7 @@ describe('zones through the built command', () => {
     const [pathCell, pathP, likelyP, pathZone, likelyZone, zoneP, pathX, pathY, pathLevel, meanX, meanY, spread, meanLevel] = [
       'path_cell', 'path_p', 'likely_p', 'path_zone', 'likely_zone', 'zone_p', 'path_x', 'path_y', 'path_level', 'mean_x', 'mean_y', 'spread_m', 'mean_level',
     ].map(col);
-    expect(t.header.slice(t.header.indexOf('flag'))).toEqual(['flag', 'path_zone', 'likely_zone', 'zone_p', 'path_x', 'path_y', 'path_level', 'mean_x', 'mean_y', 'spread_m', 'mean_level']);
+    expect(t.header.slice(t.header.indexOf('flag'))).toEqual(['flag', 'path_zone', 'likely_zone', 'zone_p', 'path_x', 'path_y', 'path_level', 'mean_x', 'mean_y', 'spread_m', 'mean_level', 'flag_dropout', 'flag_low_confidence', 'flag_surprising', 'flag_impossible']);
     const zones = new Set(['', 'West room', 'Hall', 'East room']);
     let emptyLikely = 0;
     for (let r = 0; r < t.nRows; r++) {

@@ -45,3 +45,16 @@ describe('parsePipeline: odometry columns', () => {
     expect(() => parse({ ...base, columns: { movedCol: '' } })).toThrow('"columns.movedCol" must be a column name, got ""');
   });
 });
+
+describe('parsePipeline: a time column', () => {
+  it('reads "timeCol" and "period" in "columns"', () => {
+    const p = parse({ ...base, columns: { timeCol: 't', period: '100ms' } });
+    expect(p.columns).toEqual({ timeCol: 't', period: '100ms' });
+  });
+  it('refuses a bad period, and a period without a time column', () => {
+    expect(() => parse({ ...base, columns: { timeCol: 't', period: '5min' } })).toThrow('"columns.period" must be a duration > 0 in ms or s');
+    expect(() => parse({ ...base, columns: { timeCol: 't', period: 100 } })).toThrow('"columns.period" must be a duration');
+    expect(() => parse({ ...base, columns: { period: '1s' } })).toThrow('"columns.period" must come with "columns.timeCol"');
+    expect(() => parse({ ...base, columns: { timeCol: '' } })).toThrow('"columns.timeCol" must be a column name');
+  });
+});

@@ -64,13 +64,13 @@ describe('readRuns(path, options)', () => {
   });
 
   it('readRuns(path) rejects an unsupported extension, listing the supported ones', async () => {
-    const path = join(dir, 'runs.parquet');
+    const path = join(dir, 'runs.xlsx');
     expect(await inputErrorOf(readRuns(path, OPTIONS))).toBe(
-      `${path}: extension must be one of .csv, .arrow, .feather, .arrows, got ".parquet"`,
+      `${path}: extension must be one of .csv, .arrow, .feather, .arrows, .parquet, got ".xlsx"`,
     );
     const bare = join(dir, 'runs');
     expect(await inputErrorOf(readRuns(bare, OPTIONS))).toBe(
-      `${bare}: extension must be one of .csv, .arrow, .feather, .arrows, got none`,
+      `${bare}: extension must be one of .csv, .arrow, .feather, .arrows, .parquet, got none`,
     );
   });
 

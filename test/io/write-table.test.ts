@@ -181,11 +181,11 @@ describe('writeTable(path, table)', () => {
   });
 
   it('writeTable(path) rejects an unsupported extension and writes nothing', async () => {
-    const path = join(dir, 'out.parquet');
+    const path = join(dir, 'out.xlsx');
     await expect(writeTable(path, annotated())).rejects.toThrow(
-      new InputError(`${path}: extension must be one of .csv, .arrow, .feather, .arrows, got ".parquet"`),
+      new InputError(`${path}: extension must be one of .csv, .arrow, .feather, .arrows, .parquet, got ".xlsx"`),
     );
-    expect(await readdir(dir)).not.toContain('out.parquet');
+    expect(await readdir(dir)).not.toContain('out.xlsx');
   });
 
   it('writeTable(path) keeps the old file when the table is bad', async () => {
