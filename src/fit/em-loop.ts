@@ -20,6 +20,12 @@ export interface EmLoopOptions {
   transitionPriorStrength?: number;
   /** Centre of the transition prior, CSR order (the floor's movement model). */
   transitionCentre?: Float64Array;
+  /**
+   * Largest fall of the objective (total, not per reading) taken as convergence rather than a defect:
+   * the pruned E-step (`fit --prune`) is approximate, so its objective may fall by up to twice its
+   * bound. @default 0
+   */
+  decreaseSlack?: number;
 }
 
 /** Where a loop stands after an M-step: enough to continue it exactly (checkpoints). */
@@ -83,6 +89,10 @@ export async function runEm(
     history.push(perReading);
     onIteration?.(iterations, perReading);
     if (previous !== undefined) {
+      const slack = (options.decreaseSlack ?? 0) / Math.max(1, counts.nReadings);
+      if (slack > 0 && perReading < previous && perReading >= previous - slack) {
+        return { model, iterations, stopReason: 'converged', history, logLikPerReading: counts.logLik / Math.max(1, counts.nReadings), counts };
+      }
       if (perReading < previous - DECREASE_TOLERANCE * Math.abs(previous) - 1e-15) {
         throw new WorkError(
           `EM iteration ${iterations}: the objective must not decrease, got ${previous} → ${perReading} per reading; this is a defect, please report it with the inputs`,

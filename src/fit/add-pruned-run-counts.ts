@@ -1,0 +1,41 @@
+import type { SparseChain } from '../kernels/sparse-chain.js';
+import { forwardPruned } from '../kernels/forward-pruned.js';
+import { backwardPruned } from '../kernels/backward-pruned.js';
+import type { ExpectedCountsTable } from '../model/expected-counts-table.js';
+import type { EStepWorkspace } from './e-step-workspace.js';
+import { addRunCounts } from './add-run-counts.js';
+import { foldCounts } from './fold-counts.js';
+
+/**
+ * Pruned E-step of one run (`fit --prune EPS`): `forwardPruned` drops, at each step, the cells whose
+ * forward mass is below a threshold that keeps the discarded share at most `eps`, and `backwardPruned`
+ * visits the kept cells only; the counts (added into `counts` like `addRunCounts`) are the exact
+ * counts of the model with its emissions masked to the kept cells. Returns the pruned filter's
+ * log-likelihood L̂ (see `forwardPruned` for its bounds against the exact one).
+ *
+ * Falls back to the exact `addRunCounts` (same counts as without pruning) when the run's forward table
+ * would exceed `ws.plainLimitBytes` (no checkpointed pruned pass yet), or when the pruned filter loses
+ * every path (a step no kept cell can explain), so a run possible under the model is never called
+ * impossible because of pruning.
+ */
+export function addPrunedRunCounts(
+  chain: SparseChain,
+  obs: Int32Array,
+  counts: ExpectedCountsTable,
+  ws: EStepWorkspace,
+  eps: number,
+): number {
+  const T = obs.length;
+  const n = chain.nCells;
+  if (T === 0 || T * n * 8 > ws.plainLimitBytes) return addRunCounts(chain, obs, counts, ws);
+  ws.ensure(n, chain.nReadings, chain.outPtr[n], T, T);
+  const b = ws.ensurePruned(n, T);
+  const logP = forwardPruned(chain, obs, eps, ws.table, ws.scale, b.kept, b.keptPtr, b.acc, b.mark, b.cand, b.out);
+  if (logP === -Infinity) return addRunCounts(chain, obs, counts, ws);
+  ws.w.fill(0, 0, n);
+  ws.wSpare.fill(0, 0, n);
+  const acc = ws.counts;
+  backwardPruned(chain, obs, ws.table, ws.scale, b.kept, b.keptPtr, ws.w, ws.wSpare, acc.emitCount, acc.linkCount, acc.dwellCount, acc.startCount);
+  foldCounts(chain, acc, counts, true);
+  return logP;
+}

@@ -1,0 +1,122 @@
+import type { SparseChain } from './sparse-chain.js';
+
+/**
+ * Pruned scaled forward recursion (a beam with a stated bound) for one whole run. Each step scatters
+ * the kept cells of the previous step along their dwell and links (so only kept cells and their
+ * successors cost anything), multiplies by the emissions, and then drops every candidate cell whose
+ * mass is below
+ *
+ *   τ_t = eps · S_t / n_t      (S_t the step's total, n_t its number of cells with mass > 0),
+ *
+ * so the share discarded at step t is δ_t ≤ n_t · τ_t / S_t = eps. The largest cell is always kept
+ * (it is at least the mean S_t / n_t ≥ τ_t when eps ≤ 1). The kept vector is stored unscaled, as in
+ * `forwardSegment`, with c_t = 1 / K_t (K_t = S_t − D_t the kept mass). This is exactly the forward
+ * pass of the model whose emissions at step t are masked to the kept cells, so `backwardPruned` then
+ * yields that masked model's exact expected counts (each step's posterior sums to 1).
+ *
+ * Returns L̂ = Σ_t log S_t (the log-likelihood the pruned filter predicts; the masked model's own is
+ * log P̃ = Σ_t log K_t = L̂ − B) and writes B = Σ_t log(S_t / K_t) = Σ_t −log(1 − δ_t) ≤ T·(−log(1 − eps))
+ * into `out[0]`. Bounds (DEVELOPERS.md, "Pruned E-step"): always L̂ − log P ≤ B; and
+ * log P − L̂ ≤ −log(1 − Γ) − B with Γ = Σ_t (exact posterior of the cells dropped at t).
+ * Returns −Infinity when a step has no mass (the caller then runs the exact kernels).
+ *
+ * Layout: `table` rows of nCells, row t holds u_t on the kept cells only (other entries are stale and
+ * never read); `kept[keptPtr[t] … keptPtr[t+1]−1]` lists the kept cells of step t (capacity T·nCells);
+ * `acc` (nCells, all zero on entry and on return), `mark` (nCells, all zero on entry and on return) and
+ * `cand` (nCells) are scratch. `eps` in [0, 1). No allocation.
+ */
+export function forwardPruned(
+  chain: SparseChain,
+  obs: Int32Array,
+  eps: number,
+  table: Float64Array,
+  scale: Float64Array,
+  kept: Int32Array,
+  keptPtr: Int32Array,
+  acc: Float64Array,
+  mark: Uint8Array,
+  cand: Int32Array,
+  out: Float64Array,
+): number {
+  const { nCells: n, nReadings: m, start, dwell, outPtr, outIdx, outProb, emitT } = chain;
+  const T = obs.length;
+  let logP = 0;
+  let bound = 0;
+  let nk = 0;
+  keptPtr[0] = 0;
+  out[0] = 0;
+  for (let t = 0; t < T; t++) {
+    const cur = t * n;
+    const o = obs[t];
+    const e = (o < 0 ? m : o) * n;
+    let nc = 0;
+    if (t === 0) {
+      for (let j = 0; j < n; j++) {
+        if (start[j] > 0) {
+          cand[nc++] = j;
+          acc[j] = start[j];
+        }
+      }
+    } else {
+      const prev = cur - n;
+      const c = scale[t - 1];
+      for (let k = keptPtr[t - 1]; k < keptPtr[t]; k++) {
+        const i = kept[k];
+        const u = table[prev + i] * c;
+        const d = u * dwell[i];
+        if (mark[i] === 0) {
+          mark[i] = 1;
+          cand[nc++] = i;
+          acc[i] = d;
+        } else acc[i] += d;
+        const end = outPtr[i + 1];
+        for (let q = outPtr[i]; q < end; q++) {
+          const j = outIdx[q];
+          const v = u * outProb[q];
+          if (mark[j] === 0) {
+            mark[j] = 1;
+            cand[nc++] = j;
+            acc[j] = v;
+          } else acc[j] += v;
+        }
+      }
+    }
+    let sum = 0;
+    let nPos = 0;
+    for (let k = 0; k < nc; k++) {
+      const j = cand[k];
+      const v = acc[j] * emitT[e + j];
+      acc[j] = v;
+      sum += v;
+      if (v > 0) nPos++;
+    }
+    if (!(sum > 0)) {
+      for (let k = 0; k < nc; k++) {
+        acc[cand[k]] = 0;
+        mark[cand[k]] = 0;
+      }
+      scale[t] = 1;
+      keptPtr[t + 1] = nk;
+      return -Infinity;
+    }
+    const tau = (eps * sum) / nPos;
+    let keptSum = 0;
+    for (let k = 0; k < nc; k++) {
+      const j = cand[k];
+      const v = acc[j];
+      if (v > 0 && v >= tau) {
+        table[cur + j] = v;
+        kept[nk++] = j;
+        keptSum += v;
+      }
+      acc[j] = 0;
+      mark[j] = 0;
+    }
+    keptPtr[t + 1] = nk;
+    scale[t] = 1 / keptSum;
+    logP += Math.log(sum);
+    if (keptSum !== sum) bound += Math.log(sum / keptSum);
+  }
+  out[0] = bound;
+  return logP;
+}
