@@ -87,7 +87,7 @@ function pruneStats(model: HmmModel, eps: number): { kept: number; error: number
   const keptPtr = new Int32Array(T + 1);
   const out = new Float64Array(1);
   for (const r of runs) {
-    const lp = forwardPruned(chain, r.obs, eps, table, new Float64Array(T), keptIdx, keptPtr, new Float64Array(n), new Uint8Array(n), new Int32Array(n), out);
+    const lp = forwardPruned(chain, r.obs, eps, table, new Float64Array(T), keptIdx, keptPtr, new Float64Array(n), new Uint8Array(n), new Int32Array(n + 1), out);
     kept += keptPtr[r.obs.length];
     error += lp - forwardScore(chain, r.obs, r.obs.length, new Float64Array(2 * n));
     bound += out[0];

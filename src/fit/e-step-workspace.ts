@@ -114,7 +114,7 @@ export class EStepWorkspace {
   ensurePruned(nCells: number, nSteps: number): PrunedBuffers {
     let b = this.pruned;
     if (b === null || b.acc.length < nCells) {
-      b = { kept: new Int32Array(0), keptPtr: new Int32Array(0), acc: new Float64Array(nCells), mark: new Uint8Array(nCells), cand: new Int32Array(nCells), out: new Float64Array(1) };
+      b = { kept: new Int32Array(0), keptPtr: new Int32Array(0), acc: new Float64Array(nCells), mark: new Uint8Array(nCells), cand: new Int32Array(nCells + 1), out: new Float64Array(1) };
       this.pruned = b;
     }
     if (b.kept.length < nSteps * nCells) b.kept = new Int32Array(nSteps * nCells);

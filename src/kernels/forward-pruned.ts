@@ -23,7 +23,7 @@ import type { SparseChain } from './sparse-chain.js';
  * Layout: `table` rows of nCells, row t holds u_t on the kept cells only (other entries are stale and
  * never read); `kept[keptPtr[t] … keptPtr[t+1]−1]` lists the kept cells of step t (capacity T·nCells);
  * `acc` (nCells, all zero on entry and on return), `mark` (nCells, all zero on entry and on return) and
- * `cand` (nCells) are scratch. `eps` in [0, 1). No allocation.
+ * `cand` (nCells + 1) are scratch. `eps` in [0, 1). No allocation.
  */
 export function forwardPruned(
   chain: SparseChain,
@@ -63,21 +63,19 @@ export function forwardPruned(
       for (let k = keptPtr[t - 1]; k < keptPtr[t]; k++) {
         const i = kept[k];
         const u = table[prev + i] * c;
-        const d = u * dwell[i];
-        if (mark[i] === 0) {
-          mark[i] = 1;
-          cand[nc++] = i;
-          acc[i] = d;
-        } else acc[i] += d;
+        // Branch-free: `acc` is zero outside this step's candidates, and a cell joins the candidate
+        // list only the first time it is reached (`mark` 0 → 1).
+        acc[i] += u * dwell[i];
+        cand[nc] = i;
+        nc += 1 - mark[i];
+        mark[i] = 1;
         const end = outPtr[i + 1];
         for (let q = outPtr[i]; q < end; q++) {
           const j = outIdx[q];
-          const v = u * outProb[q];
-          if (mark[j] === 0) {
-            mark[j] = 1;
-            cand[nc++] = j;
-            acc[j] = v;
-          } else acc[j] += v;
+          acc[j] += u * outProb[q];
+          cand[nc] = j;
+          nc += 1 - mark[j];
+          mark[j] = 1;
         }
       }
     }

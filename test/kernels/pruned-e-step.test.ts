@@ -48,7 +48,7 @@ function runPruned(model: HmmModel, obs: Int32Array, eps: number): Pruned {
   const keptIdx = new Int32Array(T * n);
   const keptPtr = new Int32Array(T + 1);
   const out = new Float64Array(1);
-  const logP = forwardPruned(chain, obs, eps, table, new Float64Array(T), keptIdx, keptPtr, new Float64Array(n), new Uint8Array(n), new Int32Array(n), out);
+  const logP = forwardPruned(chain, obs, eps, table, new Float64Array(T), keptIdx, keptPtr, new Float64Array(n), new Uint8Array(n), new Int32Array(n + 1), out);
   const kept = Array.from({ length: T }, (_, t) => {
     const row = new Array<boolean>(n).fill(false);
     for (let k = keptPtr[t]; k < keptPtr[t + 1]; k++) row[keptIdx[k]] = true;
