@@ -1,6 +1,5 @@
 import type { OutputTable } from './output-table.js';
 import { tableFormatOf } from './table-format-of.js';
-import { tableToArrowBytes } from './table-to-arrow-bytes.js';
 import { csvChunks } from './table-to-csv.js';
 import { writeFileAtomic } from './write-atomic.js';
 
@@ -18,6 +17,8 @@ export async function writeTable(path: string, table: OutputTable): Promise<void
     await writeFileAtomic(path, prepend(header.done ? '' : header.value, chunks));
     return;
   }
+  // Apache Arrow is loaded only when an Arrow table is written (start-up time).
+  const { tableToArrowBytes } = await import('./table-to-arrow-bytes.js');
   await writeFileAtomic(path, tableToArrowBytes(table, format === 'arrow-stream', path));
 }
 
