@@ -82,12 +82,23 @@ function pruneStats(model: HmmModel, eps: number): { kept: number; error: number
   let error = 0;
   let bound = 0;
   const T = Math.max(...runs.map((r) => r.obs.length));
-  const table = new Float64Array(T * n);
-  const keptIdx = new Int32Array(T * n);
+  let capacity = T * Math.min(n, 256);
+  let keptIdx = new Int32Array(capacity);
+  let keptVal = new Float64Array(capacity);
   const keptPtr = new Int32Array(T + 1);
   const out = new Float64Array(1);
+  const acc = new Float64Array(n);
+  const mark = new Uint8Array(n);
+  const cand = new Int32Array(n + 1);
+  const scale = new Float64Array(T);
   for (const r of runs) {
-    const lp = forwardPruned(chain, r.obs, eps, table, new Float64Array(T), keptIdx, keptPtr, new Float64Array(n), new Uint8Array(n), new Int32Array(n + 1), out);
+    let lp = forwardPruned(chain, r.obs, eps, scale, keptIdx, keptVal, keptPtr, acc, mark, cand, out);
+    while (Number.isNaN(lp)) {
+      capacity *= 2;
+      keptIdx = new Int32Array(capacity);
+      keptVal = new Float64Array(capacity);
+      lp = forwardPruned(chain, r.obs, eps, scale, keptIdx, keptVal, keptPtr, acc, mark, cand, out);
+    }
     kept += keptPtr[r.obs.length];
     error += lp - forwardScore(chain, r.obs, r.obs.length, new Float64Array(2 * n));
     bound += out[0];

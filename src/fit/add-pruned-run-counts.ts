@@ -13,8 +13,9 @@ import { foldCounts } from './fold-counts.js';
  * counts of the model with its emissions masked to the kept cells. Returns the pruned filter's
  * log-likelihood L̂ (see `forwardPruned` for its bounds against the exact one).
  *
- * Falls back to the exact `addRunCounts` (same counts as without pruning) when the run's forward table
- * would exceed `ws.plainLimitBytes` (no checkpointed pruned pass yet), or when the pruned filter loses
+ * The kept cells are stored compactly (12 bytes per kept (step, cell) pair), so memory follows what is
+ * kept, not steps × cells. Falls back to the exact `addRunCounts` (same counts as without pruning) when
+ * the kept pairs would exceed `ws.plainLimitBytes` (no checkpointed pruned pass yet), or when the pruned filter loses
  * every path (a step no kept cell can explain), so a run possible under the model is never called
  * impossible because of pruning.
  */
@@ -27,15 +28,25 @@ export function addPrunedRunCounts(
 ): number {
   const T = obs.length;
   const n = chain.nCells;
-  if (T === 0 || T * n * 8 > ws.plainLimitBytes) return addRunCounts(chain, obs, counts, ws);
-  ws.ensure(n, chain.nReadings, chain.outPtr[n], T, T);
-  const b = ws.ensurePruned(n, T);
-  const logP = forwardPruned(chain, obs, eps, ws.table, ws.scale, b.kept, b.keptPtr, b.acc, b.mark, b.cand, b.out);
+  if (T === 0) return addRunCounts(chain, obs, counts, ws);
+  // Kept (step, cell) pairs take 12 bytes each; start from what the buffers hold (at least 64 per step)
+  // and double on overflow, up to every pair or the workspace limit.
+  const most = Math.min(T * n, Math.floor(ws.plainLimitBytes / 12));
+  let capacity = Math.min(most, Math.max(ws.pruned?.kept.length ?? 0, T * Math.min(n, 64)));
+  ws.ensure(n, chain.nReadings, chain.outPtr[n], T, 1);
+  let b = ws.ensurePruned(n, T, capacity);
+  let logP = forwardPruned(chain, obs, eps, ws.scale, b.kept, b.keptVal, b.keptPtr, b.acc, b.mark, b.cand, b.out);
+  while (Number.isNaN(logP)) {
+    if (capacity >= most) return addRunCounts(chain, obs, counts, ws);
+    capacity = Math.min(most, 2 * capacity);
+    b = ws.ensurePruned(n, T, capacity);
+    logP = forwardPruned(chain, obs, eps, ws.scale, b.kept, b.keptVal, b.keptPtr, b.acc, b.mark, b.cand, b.out);
+  }
   if (logP === -Infinity) return addRunCounts(chain, obs, counts, ws);
   ws.w.fill(0, 0, n);
   ws.wSpare.fill(0, 0, n);
   const acc = ws.counts;
-  backwardPruned(chain, obs, ws.table, ws.scale, b.kept, b.keptPtr, ws.w, ws.wSpare, acc.emitCount, acc.linkCount, acc.dwellCount, acc.startCount);
+  backwardPruned(chain, obs, ws.scale, b.kept, b.keptVal, b.keptPtr, ws.w, ws.wSpare, acc.emitCount, acc.linkCount, acc.dwellCount, acc.startCount);
   foldCounts(chain, acc, counts, true);
   return logP;
 }

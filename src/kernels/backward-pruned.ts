@@ -8,16 +8,15 @@ import type { SparseChain } from './sparse-chain.js';
  * `emitCount` with the dropout row, `startCount` for step 0) — the masked model's exact counts, each
  * step's posterior summing to 1.
  *
- * `table`, `scale`, `kept`, `keptPtr` as left by `forwardPruned` (rows are not shifted: row t is step
- * t). `w` and `wSpare` (nCells each) must be all zero on entry; they are all zero on return. No
+ * `scale`, `kept`, `keptVal`, `keptPtr` as left by `forwardPruned`. `w` and `wSpare` (nCells each) must be all zero on entry; they are all zero on return. No
  * allocation.
  */
 export function backwardPruned(
   chain: SparseChain,
   obs: Int32Array,
-  table: Float64Array,
   scale: Float64Array,
   kept: Int32Array,
+  keptVal: Float64Array,
   keptPtr: Int32Array,
   w: Float64Array,
   wSpare: Float64Array,
@@ -31,7 +30,6 @@ export function backwardPruned(
   let next = w; // ŵ_{t+1}, zero outside the cells kept at t+1
   let out = wSpare; // ŵ_t
   for (let t = T - 1; t >= 0; t--) {
-    const row = t * n;
     const o = obs[t];
     const e = (o < 0 ? m : o) * n;
     const z = t === T - 1 ? scale[t] : 0;
@@ -39,7 +37,7 @@ export function backwardPruned(
     const k1 = keptPtr[t + 1];
     for (let k = keptPtr[t]; k < k1; k++) {
       const i = kept[k];
-      const u = table[row + i];
+      const u = keptVal[k];
       const d = dwell[i] * next[i];
       dwellCount[i] += u * d;
       let l = 0;

@@ -20,8 +20,10 @@ import type { SparseChain } from './sparse-chain.js';
  * log P − L̂ ≤ −log(1 − Γ) − B with Γ = Σ_t (exact posterior of the cells dropped at t).
  * Returns −Infinity when a step has no mass (the caller then runs the exact kernels).
  *
- * Layout: `table` rows of nCells, row t holds u_t on the kept cells only (other entries are stale and
- * never read); `kept[keptPtr[t] … keptPtr[t+1]−1]` lists the kept cells of step t (capacity T·nCells);
+ * Layout (compact: memory follows the kept cells, not steps × cells): `kept[keptPtr[t] … keptPtr[t+1]−1]`
+ * lists the kept cells of step t and `keptVal` their unscaled u_t, in the same places. Returns NaN when
+ * they would overflow `kept.length` (scratch left clean: the caller grows them and calls again);
+ * T·nCells always suffices.
  * `acc` (nCells, all zero on entry and on return), `mark` (nCells, all zero on entry and on return) and
  * `cand` (nCells + 1) are scratch. `eps` in [0, 1). No allocation.
  */
@@ -29,9 +31,9 @@ export function forwardPruned(
   chain: SparseChain,
   obs: Int32Array,
   eps: number,
-  table: Float64Array,
   scale: Float64Array,
   kept: Int32Array,
+  keptVal: Float64Array,
   keptPtr: Int32Array,
   acc: Float64Array,
   mark: Uint8Array,
@@ -46,7 +48,6 @@ export function forwardPruned(
   keptPtr[0] = 0;
   out[0] = 0;
   for (let t = 0; t < T; t++) {
-    const cur = t * n;
     const o = obs[t];
     const e = (o < 0 ? m : o) * n;
     let nc = 0;
@@ -58,11 +59,10 @@ export function forwardPruned(
         }
       }
     } else {
-      const prev = cur - n;
       const c = scale[t - 1];
       for (let k = keptPtr[t - 1]; k < keptPtr[t]; k++) {
         const i = kept[k];
-        const u = table[prev + i] * c;
+        const u = keptVal[k] * c;
         // Branch-free: `acc` is zero outside this step's candidates, and a cell joins the candidate
         // list only the first time it is reached (`mark` 0 → 1).
         acc[i] += u * dwell[i];
@@ -97,14 +97,21 @@ export function forwardPruned(
       keptPtr[t + 1] = nk;
       return -Infinity;
     }
+    if (nk + nc > kept.length) {
+      for (let k = 0; k < nc; k++) {
+        acc[cand[k]] = 0;
+        mark[cand[k]] = 0;
+      }
+      return NaN;
+    }
     const tau = (eps * sum) / nPos;
     let keptSum = 0;
     for (let k = 0; k < nc; k++) {
       const j = cand[k];
       const v = acc[j];
       if (v > 0 && v >= tau) {
-        table[cur + j] = v;
-        kept[nk++] = j;
+        kept[nk] = j;
+        keptVal[nk++] = v;
         keptSum += v;
       }
       acc[j] = 0;

@@ -44,11 +44,10 @@ function runPruned(model: HmmModel, obs: Int32Array, eps: number): Pruned {
   const chain = chainFromModel(model);
   const n = chain.nCells;
   const T = obs.length;
-  const table = new Float64Array(T * n);
   const keptIdx = new Int32Array(T * n);
   const keptPtr = new Int32Array(T + 1);
   const out = new Float64Array(1);
-  const logP = forwardPruned(chain, obs, eps, table, new Float64Array(T), keptIdx, keptPtr, new Float64Array(n), new Uint8Array(n), new Int32Array(n + 1), out);
+  const logP = forwardPruned(chain, obs, eps, new Float64Array(T), keptIdx, new Float64Array(T * n), keptPtr, new Float64Array(n), new Uint8Array(n), new Int32Array(n + 1), out);
   const kept = Array.from({ length: T }, (_, t) => {
     const row = new Array<boolean>(n).fill(false);
     for (let k = keptPtr[t]; k < keptPtr[t + 1]; k++) row[keptIdx[k]] = true;
@@ -162,6 +161,29 @@ describe('pruned E-step (forwardPruned, backwardPruned, addPrunedRunCounts)', ()
       }),
       { ...params, numRuns: 40 },
     );
+  });
+
+  it('forwardPruned returns NaN when the kept cells overflow their buffers, leaving its scratch clean; with room it gives the same numbers', () => {
+    const model = randomModel(9, { nCells: 20, nReadings: 4, linksPerCell: 3 });
+    const chain = chainFromModel(model);
+    const obs = sampleRun(model, 50, new SeededRandom(2), 0).obs;
+    const acc = new Float64Array(20);
+    const mark = new Uint8Array(20);
+    const run = (capacity: number): { logP: number; ptr: Int32Array; idx: Int32Array; val: Float64Array; out: Float64Array } => {
+      const idx = new Int32Array(capacity);
+      const val = new Float64Array(capacity);
+      const ptr = new Int32Array(51);
+      const out = new Float64Array(1);
+      const logP = forwardPruned(chain, obs, 1e-6, new Float64Array(50), idx, val, ptr, acc, mark, new Int32Array(21), out);
+      return { logP, ptr, idx, val, out };
+    };
+    expect(run(30).logP).toBeNaN();
+    expect(Array.from(acc).every((x) => x === 0) && Array.from(mark).every((x) => x === 0)).toBe(true);
+    const roomy = run(50 * 20);
+    const tight = run(roomy.ptr[50]);
+    expect(tight.logP).toBe(roomy.logP);
+    expect(tight.out[0]).toBe(roomy.out[0]);
+    expect(Array.from(tight.val)).toEqual(Array.from(roomy.val.subarray(0, roomy.ptr[50])));
   });
 
   it('drops cells when the readings are sharp, and keeps each step’s largest cell', () => {
