@@ -5,7 +5,7 @@ import { buildModel } from '../src/model/build-model.js';
 import { sampleRun } from '../src/model/sample-run.js';
 import { SeededRandom } from '../src/model/seeded-random.js';
 
-export type ScenarioSize = 'small' | 'medium' | 'large';
+export type ScenarioSize = 'small' | 'medium' | 'large' | 'xlarge';
 
 export interface Scenario {
   /** e.g. `grid-small-seed1`. */
@@ -31,6 +31,8 @@ export const SCENARIO_SIZES: Readonly<Record<ScenarioSize, SizeSpec>> = {
   small: { width: 10, height: 10, nRuns: 50, nSteps: 500 },
   medium: { width: 20, height: 20, nRuns: 200, nSteps: 2000 },
   large: { width: 40, height: 40, nRuns: 200, nSteps: 2000 },
+  /** A campus: 10 000 cells; not in `npm run bench` by default (see `bench/xlarge-fit.ts`). */
+  xlarge: { width: 100, height: 100, nRuns: 1000, nSteps: 5000 },
 };
 
 const SURFACES = ['oak', 'laminate', 'carpet', 'tile', 'rubber', 'concrete'];
@@ -63,7 +65,7 @@ const N_DOCKS = 4;
  */
 export function makeScenario(size: ScenarioSize, seed: number): Scenario {
   const spec = SCENARIO_SIZES[size];
-  if (!spec) throw new RangeError(`makeScenario: size must be small, medium or large, got ${String(size)}`);
+  if (!spec) throw new RangeError(`makeScenario: size must be small, medium, large or xlarge, got ${String(size)}`);
   const rng = new SeededRandom(seed);
   const floor = makeGridFloor(spec.width, spec.height, rng, `grid-${size}-seed${seed}`);
   const truth = buildModel(floor, { dwell: TRUTH_DWELL, hit: TRUTH_HIT });

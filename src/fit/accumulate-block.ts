@@ -9,6 +9,7 @@ import type { EStepWorkspace } from './e-step-workspace.js';
 import { moveStepsOf, type PackedRuns } from './packed-runs.js';
 import { addMoveRunCounts } from './add-move-run-counts.js';
 import { laneGroups } from './lane-groups.js';
+import { addPrunedRunCounts } from './add-pruned-run-counts.js';
 
 export interface BlockCounts {
   counts: ExpectedCountsTable;
@@ -26,6 +27,9 @@ export interface BlockCounts {
  * `fixed` only each row's dwell and link totals, which the lane kernels then compute at a cost per cell
  * instead of per link (see `ExpectedCountsTable.trans`). When a run is impossible, `impossibleRun` names
  * the first such run in block order and the counts are incomplete.
+ *
+ * `prune` > 0 (`fit --prune`, runs without odometry only) runs every run through the pruned E-step
+ * (`addPrunedRunCounts`); 0 leaves everything above exactly as it was.
  */
 export function accumulateBlock(
   chain: SparseChain,
@@ -33,6 +37,7 @@ export function accumulateBlock(
   runs: ArrayLike<number>,
   ws: EStepWorkspace,
   mode: TransitionMode = 'learned',
+  prune = 0,
 ): BlockCounts {
   const withMove = chain.move !== undefined && packed.dBin !== undefined;
   const counts = emptyCounts(chain.nCells, chain.nnz, chain.nReadings, withMove);
@@ -62,9 +67,17 @@ export function accumulateBlock(
     }
     return { counts, impossibleRun: -1 };
   }
+  if (prune > 0) {
+    // `fit --prune`: every run through the pruned single-run kernels (lanes would have to keep the
+    // union of their runs' cells); the counts are per link, which every M-step reads.
+    for (let b = 0; b < runs.length; b++) {
+      logs[b] = addPrunedRunCounts(chain, obsOf(runs[b]), counts, ws, prune);
+      if (logs[b] === -Infinity) return { counts, impossibleRun: firstImpossible(chain, runs, obsOf) };
+    }
+  }
   const laneLogs = new Float64Array(LANES);
   const perLink = mode === 'learned';
-  for (const members of laneGroups(runs, packed.offsets)) {
+  for (const members of prune > 0 ? [] : laneGroups(runs, packed.offsets)) {
     if (members.length === 1) {
       const b = members[0];
       logs[b] = addRunCounts(chain, obsOf(runs[b]), counts, ws);

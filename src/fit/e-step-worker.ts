@@ -23,6 +23,8 @@ export interface WorkerJob {
   blocks: number[][];
   /** The M-step the counts are for (see `accumulateBlock`). */
   mode: TransitionMode;
+  /** `fit --prune` (0 = exact E-step). */
+  prune: number;
   /** Index of the next block not yet taken (shared by every thread working on this job). */
   next: Int32Array;
 }
@@ -39,7 +41,7 @@ export default function runJob(job: WorkerJob): WorkerReply {
   const chain = cached.chain;
   const compute =
     job.kind === 'counts'
-      ? (b: number): BlockCounts | BlockScore => accumulateBlock(chain, packed, job.blocks[b], ws, job.mode)
+      ? (b: number): BlockCounts | BlockScore => accumulateBlock(chain, packed, job.blocks[b], ws, job.mode, job.prune)
       : (b: number): BlockCounts | BlockScore => scoreBlock(chain, packed, job.blocks[b], ws);
   return takeBlocks(job.next, job.blocks.length, compute);
 }

@@ -4,6 +4,17 @@ import type { LaneAccumulators, LaneKernels } from '../kernels/lane-kernels.js';
 import { JsLaneKernels } from '../kernels/js-lane-kernels.js';
 import { WasmLaneKernels } from '../kernels/wasm-lane-kernels.js';
 
+/** Scratch of `forwardPruned` / `backwardPruned` (see there). */
+export interface PrunedBuffers {
+  kept: Int32Array;
+  keptVal: Float64Array;
+  keptPtr: Int32Array;
+  acc: Float64Array;
+  mark: Uint8Array;
+  cand: Int32Array;
+  out: Float64Array;
+}
+
 /** Forward tables above this size are processed in checkpointed segments (see `segmentSteps`). */
 export const DEFAULT_PLAIN_LIMIT_BYTES = 128 * 1024 * 1024;
 
@@ -95,6 +106,27 @@ export class EStepWorkspace {
     c.lastGamma = grow(c.lastGamma, nCells);
     c.startCount = grow(c.startCount, nCells);
     return this;
+  }
+
+  /** Buffers of the pruned E-step (`addPrunedRunCounts`), made on first use. */
+  pruned: PrunedBuffers | null = null;
+
+  /**
+   * Makes sure the pruned E-step's buffers serve a run of `nSteps` steps over `nCells` cells with room
+   * for `keptCapacity` kept (step, cell) pairs (12 bytes each); returns them.
+   */
+  ensurePruned(nCells: number, nSteps: number, keptCapacity: number): PrunedBuffers {
+    let b = this.pruned;
+    if (b === null || b.acc.length < nCells) {
+      b = { kept: new Int32Array(0), keptVal: new Float64Array(0), keptPtr: new Int32Array(0), acc: new Float64Array(nCells), mark: new Uint8Array(nCells), cand: new Int32Array(nCells + 1), out: new Float64Array(1) };
+      this.pruned = b;
+    }
+    if (b.kept.length < keptCapacity) {
+      b.kept = new Int32Array(keptCapacity);
+      b.keptVal = new Float64Array(keptCapacity);
+    }
+    if (b.keptPtr.length < nSteps + 1) b.keptPtr = new Int32Array(nSteps + 1);
+    return b;
   }
 
   private moveScratch = new Float64Array(0);

@@ -11,4 +11,10 @@ export interface EmLoopOptions {
   transitionPriorStrength?: number;
   /** Centre of the transition prior, CSR order (the floor's movement model). */
   transitionCentre?: Float64Array;
+  /**
+   * Largest fall of the objective (total, not per reading) taken as convergence rather than a defect:
+   * the pruned E-step (`fit --prune`) is approximate, so its objective may fall by up to twice its
+   * bound. @default 0
+   */
+  decreaseSlack?: number;
 }

@@ -74,6 +74,10 @@ export async function runEm(
     history.push(perReading);
     onIteration?.(iterations, perReading);
     if (previous !== undefined) {
+      const slack = (options.decreaseSlack ?? 0) / Math.max(1, counts.nReadings);
+      if (slack > 0 && perReading < previous && perReading >= previous - slack) {
+        return { model, iterations, stopReason: 'converged', history, logLikPerReading: counts.logLik / Math.max(1, counts.nReadings), counts };
+      }
       if (perReading < previous - DECREASE_TOLERANCE * Math.abs(previous) - 1e-15) {
         throw new WorkError(
           `EM iteration ${iterations}: the objective must not decrease, got ${previous} → ${perReading} per reading; this is a defect, please report it with the inputs`,

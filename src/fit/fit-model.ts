@@ -135,17 +135,22 @@ export async function fitModel(
   const surfaceIndex = new Map(floor.surfaces.map((s, r) => [s, r] as const));
   const prior = input.prior ?? surveyPrior(Int32Array.from(floor.cells, (c) => surfaceIndex.get(c.surface) ?? 0), floor.surfaces.length, o.hit);
   const centre = equalSplitTransitions(base.structure, o.dwell);
+  // A pruned E-step's objective may fall by up to twice its bound (Σ_t −log(1 − eps) per run,
+  // DEVELOPERS.md "Pruned E-step") between iterations; the loop takes such a fall as convergence.
+  const prune = o.prune ?? 0;
+  const totalSteps = packed.offsets[packed.offsets.length - 1];
+  const pruneSlack = prune > 0 ? { decreaseSlack: -2 * Math.log1p(-prune) * totalSteps } : {};
   const loopOptionsOf = (mode: TransitionMode): EmLoopOptions =>
     mode === 'per-cell' || mode === 'learned'
-      ? { mode, priorStrength: o.priorStrength, prior, maxIter: o.maxIter, tol: o.tol, transitionPriorStrength: o.transitionPriorStrength ?? 0, transitionCentre: centre }
-      : { mode, priorStrength: o.priorStrength, prior, maxIter: o.maxIter, tol: o.tol };
+      ? { mode, priorStrength: o.priorStrength, prior, maxIter: o.maxIter, tol: o.tol, transitionPriorStrength: o.transitionPriorStrength ?? 0, transitionCentre: centre, ...pruneSlack }
+      : { mode, priorStrength: o.priorStrength, prior, maxIter: o.maxIter, tol: o.tol, ...pruneSlack };
   const fitBlocks = toBlocks(split.fit, o.blockSize);
   const heldBlocks = toBlocks(split.heldOut, o.blockSize);
   const allBlocks = toBlocks(Array.from({ length: runs.length }, (_, r) => r), o.blockSize);
   // One engine serves every candidate of `auto`: per-link counts (the `learned` form) fit every M-step.
   // With odometry the candidates are `fixed` and `tied`, whose totals form serves both.
   const engineMode: TransitionMode = modes.length > 1 ? (useMovement ? 'tied' : 'learned') : modes[0];
-  const engine: EStepEngine = workers > 1 ? new PoolEngine(packed, workers, { mode: engineMode }) : new LocalEngine(packed, { mode: engineMode });
+  const engine: EStepEngine = workers > 1 ? new PoolEngine(packed, workers, { mode: engineMode, prune }) : new LocalEngine(packed, { mode: engineMode, prune });
   try {
     const plan = restartPlan(modes, o.restarts, o.seed);
     const restarts: LoopRecord[] = [];

@@ -33,6 +33,7 @@ import type { WorkerJob, WorkerReply } from './e-step-worker.js';
  */
 export class PoolEngine implements EStepEngine {
   private readonly mode: TransitionMode;
+  private readonly prune: number;
   private readonly ws = new EStepWorkspace();
   private readonly pool: Piscina | null;
   private closed = false;
@@ -45,6 +46,7 @@ export class PoolEngine implements EStepEngine {
     options: EngineOptions = {},
   ) {
     this.mode = options.mode ?? 'learned';
+    this.prune = options.prune ?? 0;
     // Under tsx/vitest this file is TypeScript: the worker needs the tsx loader (DEVELOPERS.md, "Reference libraries and peers").
     const ts = import.meta.url.endsWith('.ts');
     const threads = Math.max(0, workers - 1);
@@ -62,7 +64,7 @@ export class PoolEngine implements EStepEngine {
   }
 
   counts(model: HmmModel, blocks: number[][]): Promise<BlockCounts[]> {
-    return this.run('counts', model, blocks, (chain, block) => accumulateBlock(chain, this.packed, block, this.ws, this.mode)) as Promise<BlockCounts[]>;
+    return this.run('counts', model, blocks, (chain, block) => accumulateBlock(chain, this.packed, block, this.ws, this.mode, this.prune)) as Promise<BlockCounts[]>;
   }
 
   score(model: HmmModel, blocks: number[][]): Promise<BlockScore[]> {
@@ -83,7 +85,7 @@ export class PoolEngine implements EStepEngine {
     if (this.closed) throw new WorkError('E-step pool: it must be open, got it closed');
     const { message, chain } = this.prepared(model);
     const next = new Int32Array(new SharedArrayBuffer(4));
-    const job: WorkerJob = { kind, model: message, blocks, mode: this.mode, next };
+    const job: WorkerJob = { kind, model: message, blocks, mode: this.mode, prune: this.prune, next };
     const pool = this.pool;
     const replies = pool ? Array.from({ length: this.workers - 1 }, () => pool.run(job) as Promise<WorkerReply>) : [];
     // Every reply is awaited, whatever happens here: a reply left pending would be rejected when the

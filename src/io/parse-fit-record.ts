@@ -143,6 +143,7 @@ function parseFitOptions(value: unknown, where: string): FitOptions {
     finalPass: expectBoolean(o.finalPass, at('finalPass')),
     blockSize: expectInteger(o.blockSize, at('blockSize'), 1),
     fromDigest: o.fromDigest === null ? null : expectString(o.fromDigest, at('fromDigest')),
+    ...(o.prune === undefined ? {} : { prune: nonNegative('prune') }),
   };
 }
 

@@ -1,6 +1,5 @@
 import { decodeUtf8 } from './decode-utf8.js';
-import { runsFromArrow, runsFromCsv } from './parse-runs.js';
-import { runsFromParquet } from './parse-parquet-runs.js';
+import { runsFromCsv } from './runs-from-csv.js';
 import { MAX_CSV_BYTES, readInputFile } from './read-input-file.js';
 import type { ReadRunsOptions, RunsTable } from './runs-table.js';
 import { tableFormatOf } from './table-format-of.js';
@@ -11,8 +10,15 @@ import { tableFormatOf } from './table-format-of.js';
  */
 export async function readRuns(path: string, options: ReadRunsOptions): Promise<RunsTable> {
   const format = tableFormatOf(path);
-  if (format === 'parquet') return runsFromParquet(await readInputFile(path), path, options);
-  if (format !== 'csv') return runsFromArrow(await readInputFile(path), path, options);
+  if (format === 'parquet') {
+    const { runsFromParquet } = await import('./parse-parquet-runs.js');
+    return runsFromParquet(await readInputFile(path), path, options);
+  }
+  if (format !== 'csv') {
+    // Apache Arrow is loaded only when an Arrow table is read (it costs most of the start-up otherwise).
+    const { runsFromArrow } = await import('./parse-runs.js');
+    return runsFromArrow(await readInputFile(path), path, options);
+  }
   return runsFromCsv(await readText(path), path, options);
 }
 

@@ -1,7 +1,5 @@
 import type { OutputTable } from './output-table.js';
 import { STDIO_PATH, tableFormatOf, type TableFormat } from './table-format-of.js';
-import { tableToParquetBytes } from './table-to-parquet-bytes.js';
-import { tableToArrowBytes } from './table-to-arrow-bytes.js';
 import { csvChunks } from './table-to-csv.js';
 import { writeFileAtomic } from './write-atomic.js';
 
@@ -13,7 +11,7 @@ import { writeFileAtomic } from './write-atomic.js';
 export async function writeTable(path: string, table: OutputTable): Promise<void> {
   const format = tableFormatOf(path);
   if (path === STDIO_PATH) {
-    await writeStandardOutput(format === 'csv' ? csvChunks(table, 8192, path) : [binaryBytes(table, format, path)]);
+    await writeStandardOutput(format === 'csv' ? csvChunks(table, 8192, path) : [await binaryBytes(table, format, path)]);
     return;
   }
   if (format === 'csv') {
@@ -23,11 +21,13 @@ export async function writeTable(path: string, table: OutputTable): Promise<void
     await writeFileAtomic(path, prepend(header.done ? '' : header.value, chunks));
     return;
   }
-  await writeFileAtomic(path, binaryBytes(table, format, path));
+  await writeFileAtomic(path, await binaryBytes(table, format, path));
 }
 
-function binaryBytes(table: OutputTable, format: TableFormat, path: string): Uint8Array {
-  return format === 'parquet' ? tableToParquetBytes(table, path, table.metadata) : tableToArrowBytes(table, format === 'arrow-stream', path);
+/** Parquet or Arrow bytes; their libraries are loaded only when such a table is written (start-up time). */
+async function binaryBytes(table: OutputTable, format: TableFormat, path: string): Promise<Uint8Array> {
+  if (format === 'parquet') return (await import('./table-to-parquet-bytes.js')).tableToParquetBytes(table, path, table.metadata);
+  return (await import('./table-to-arrow-bytes.js')).tableToArrowBytes(table, format === 'arrow-stream', path);
 }
 
 function* prepend(first: string, rest: Iterator<string>): Generator<string> {

@@ -47,6 +47,11 @@ export interface FitOptions {
   blockSize: number;
   /** Model the fit was warm-started from (`--from`), by content digest. */
   fromDigest: string | null;
+  /**
+   * `--prune EPS`: the pruned E-step's largest discarded share of forward mass per step (DEVELOPERS.md,
+   * "Pruned E-step"). Absent for exact fits, so their model files are as before the option existed.
+   */
+  prune?: number;
 }
 
 /** Provenance of a fitted model (docs/formats.md, "Model file", the fit record). */

@@ -12,7 +12,6 @@ import { checkModelFloor } from '../model/check-model-floor.js';
 import { withFloorZones } from '../model/with-floor-zones.js';
 import type { AmbiguityOptions } from '../report/estimate-ambiguity.js';
 import type { ReportData } from '../report/report-data.js';
-import { columnsFromBytes } from '../io/columns-from-bytes.js';
 import { runRowsFromTable } from '../report/run-rows-from-table.js';
 import { changeRowsFromTable } from '../report/change-rows-from-table.js';
 import { buildReportData } from '../report/build-report-data.js';
@@ -73,10 +72,10 @@ export async function reportToFile(config: ReportConfig, preloaded?: ModelFile):
     ? await readRuns(config.annotated, { surfaces: model.surfaces, runCol: config.keys.runCol, stepCol: config.keys.stepCol, readingCol: config.keys.readingCol, unknownReadings: config.keys.unknownReadings, timeCol: config.keys.timeCol, period: config.keys.period })
     : null;
   const summary = config.summary
-    ? runRowsFromTable(columnsFromBytes(await readInputFile(config.summary), tableFormatOf(config.summary), config.summary))
+    ? runRowsFromTable((await import('../io/columns-from-bytes.js')).columnsFromBytes(await readInputFile(config.summary), tableFormatOf(config.summary), config.summary))
     : null;
   const changes = config.changes
-    ? changeRowsFromTable(columnsFromBytes(await readInputFile(config.changes), tableFormatOf(config.changes), config.changes), model.cells.map((c) => c.id))
+    ? changeRowsFromTable((await import('../io/columns-from-bytes.js')).columnsFromBytes(await readInputFile(config.changes), tableFormatOf(config.changes), config.changes), model.cells.map((c) => c.id))
     : null;
   const name = (p: string | null): string | null => (p ? basename(p) : null);
   const data = buildReportData({

@@ -33,6 +33,7 @@ export function resolveFitOptions(
     if (typeof raw.finalPass !== 'boolean') fail('finalPass', 'true or false');
     finalPass = raw.finalPass as boolean;
   }
+  const prune = num('prune', 0, (x) => x >= 0 && x <= 0.1, 'a number from 0 to 0.1');
   const from = raw.from === undefined || raw.from === null ? null : String(raw.from);
   const options: FitOptions = {
     restarts: int('restarts', d.restarts, 1, 1000),
@@ -50,6 +51,7 @@ export function resolveFitOptions(
     finalPass,
     blockSize: d.blockSize,
     fromDigest: null,
+    ...(prune > 0 ? { prune } : {}),
   };
   const workers = int('workers', availableParallelism(), 1, 256);
   return { options, workers, from };

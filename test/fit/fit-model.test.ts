@@ -65,3 +65,18 @@ describe('fitModel', () => {
   }
 });
 
+
+describe('fitModel with --prune', () => {
+  it('records prune, ends within 1e-3 of the exact fit per emission entry, and is byte-identical for 1 and 2 threads', async () => {
+    const pruned = { ...options, restarts: 1, maxIter: 10, prune: 1e-6 };
+    const exact = await fitModel(input, { ...pruned, prune: undefined }, 1);
+    const a = await fitModel(input, pruned, 1);
+    const b = await fitModel(input, pruned, 2);
+    expect(a.record.options.prune).toBe(1e-6);
+    expect('prune' in exact.record.options && exact.record.options.prune !== undefined).toBe(false);
+    expect(Buffer.from(a.model.emission.buffer).equals(Buffer.from(b.model.emission.buffer))).toBe(true);
+    let worst = 0;
+    for (let x = 0; x < a.model.emission.length; x++) worst = Math.max(worst, Math.abs(a.model.emission[x] - exact.model.emission[x]));
+    expect(worst).toBeLessThan(1e-3);
+  });
+});

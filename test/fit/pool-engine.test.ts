@@ -38,6 +38,28 @@ describe('PoolEngine(packed, threads)', () => {
     }
   });
 
+  it('with --prune: 2 threads return every block byte for byte as in-process; the counts differ from the exact ones by little', async () => {
+    const blocks = blocksOf(4);
+    const local = new LocalEngine(shared, { mode: 'tied', prune: 1e-3 });
+    const pool = new PoolEngine(shared, 2, { mode: 'tied', prune: 1e-3 });
+    const exact = new LocalEngine(shared, { mode: 'tied' });
+    try {
+      const want = await local.counts(model, blocks);
+      const got = await pool.counts(model, blocks);
+      const ref = await exact.counts(model, blocks);
+      got.forEach((b, k) => {
+        expect(b.counts.logLik, `block ${k}`).toBe(want[k].counts.logLik);
+        expect(Buffer.from(b.counts.trans.buffer).equals(Buffer.from(want[k].counts.trans.buffer)), `block ${k} trans`).toBe(true);
+        expect(Buffer.from(b.counts.emitT.buffer).equals(Buffer.from(want[k].counts.emitT.buffer)), `block ${k} emit`).toBe(true);
+        // The pruned filter's log-likelihood is within its bound of the exact one (B ≤ −steps · log(1 − eps)).
+        const steps = blocks[k].reduce((n, r) => n + runs[r].obs.length, 0);
+        expect(Math.abs(b.counts.logLik - ref[k].counts.logLik), `block ${k} log P`).toBeLessThanOrEqual(-steps * Math.log1p(-1e-3));
+      });
+    } finally {
+      await pool.close();
+    }
+  });
+
   it('works with fewer blocks than threads, and with none', async () => {
     const pool = new PoolEngine(shared, 4, { mode: 'tied' });
     const local = new LocalEngine(shared, { mode: 'tied' });

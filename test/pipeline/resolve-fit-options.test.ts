@@ -33,3 +33,19 @@ describe('fit options: transition modes and the transition prior', () => {
     expect(resolveFitOptions(p.fit as Record<string, unknown>, 'p.json', (k) => `fit.${k}`).options.transitionPriorStrength).toBe(50);
   });
 });
+
+describe('fit options: --prune', () => {
+  it('is absent by default and at 0 (exact fits keep their model files), recorded when above 0', () => {
+    expect('prune' in resolveFitOptions({}, 'fit').options).toBe(false);
+    expect('prune' in resolveFitOptions({ prune: '0' }, 'fit').options).toBe(false);
+    expect(resolveFitOptions({ prune: '1e-6' }, 'fit').options.prune).toBe(1e-6);
+  });
+
+  it('rejects values outside [0, 0.1] with one line naming the flag, and a pipeline accepts fit.prune', () => {
+    expect(() => resolveFitOptions({ prune: '0.5' }, 'fit')).toThrow(new InputError('fit: --prune must be a number from 0 to 0.1, got "0.5"'));
+    expect(() => resolveFitOptions({ prune: 'abc' }, 'fit')).toThrow(/--prune must be a number from 0 to 0.1, got "abc"/);
+    const text = JSON.stringify({ format: 'underfoot-pipeline/1', floor: 'f.json', runs: ['r.csv'], fit: { prune: 1e-4 }, out: { dir: 'o', model: 'm.json' } });
+    const p = parsePipeline(text, '/x/p.json');
+    expect(resolveFitOptions(p.fit as Record<string, unknown>, 'p.json', (k) => `fit.${k}`).options.prune).toBe(1e-4);
+  });
+});
