@@ -139,7 +139,7 @@ describe('compare on a refurbished building (regions)', () => {
     }
     const fit = runCli(['fit', '--floor', p('offices.json'), '--runs', p('o-old.csv'), '--out', p('o-model.json'), '--restarts', '2', '--workers', '1', '--quiet']);
     expect(fit.code, fit.stderr).toBe(0);
-    const r = runCli(['compare', '--model', p('o-model.json'), '--floor', p('offices.json'), '--runs', p('o-new.csv'), '--out', p('o-changes.csv'), '--write-floor', p('o-floor.json'), '--workers', '1', '--null-draws', '3', '--quiet']);
+    const r = runCli(['compare', '--model', p('o-model.json'), '--floor', p('offices.json'), '--runs', p('o-new.csv'), '--out', p('o-changes.csv'), '--write-floor', p('o-floor.json'), '--workers', '1', '--null-draws', '3']);
     expect(r.code, r.stderr).toBe(0);
     const t = parseCsv(readFileSync(p('o-changes.csv'), 'utf8'), 'o-changes.csv');
     const col = (name: string) => t.columns[t.header.indexOf(name)].toArray().map(String);

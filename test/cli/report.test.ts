@@ -83,7 +83,7 @@ describe('underfoot report (built command)', () => {
       format: 'underfoot-pipeline/1', floor: 'floor.json', runs: ['raw-runs.csv'], model: 'model.json',
       out: { dir: 'piped', summary: 'runs.csv', report: 'report.html' },
     }));
-    const r = runCli(['run', p('pipe.json'), '--quiet']);
+    const r = runCli(['run', p('pipe.json')]);
     expect(r.code, r.stderr).toBe(0);
     expect(r.stdout).toContain(p('piped/report.html'));
     const html = readFileSync(p('piped/report.html'), 'utf8');
