@@ -1,3 +1,5 @@
-/** Printed with every decode: the contract requires that results say plainly what they are not. */
-export const SAFETY_NOTE =
-  'Decoded positions are statistical estimates, not a safety function: never use them for collision avoidance or safety decisions; robot safety rests on the robot\'s own certified systems and local codes.';
+/**
+ * Printed with every decode: results must say plainly what they are not. The same words are stored in
+ * the annotated table's metadata (`SAFETY_CAUTION`, `pipeline/decode-from-files.ts`): one text, two places.
+ */
+export { SAFETY_CAUTION as SAFETY_NOTE } from '../pipeline/cli-surface.js';

@@ -10,3 +10,4 @@ export { DEFAULT_AMBIGUITY_OPTIONS, type AmbiguityOptions } from '../report/esti
 export type { FitProgress } from '../fit/fit-model.js';
 export type { ModelFile } from '../io/model-file.js';
 export { removeTemporaryFiles } from '../io/write-atomic.js';
+export { SAFETY_CAUTION } from './decode-from-files.js';

@@ -15,7 +15,7 @@ import { wasmFallbackWarning } from './wasm-fallback-warning.js';
 import { fileDigest } from '../io/file-digest.js';
 import { TOOL_VERSION } from '../version.js';
 
-/** The caution stored in Arrow/Parquet metadata; the same words as the note the CLI prints (test/cli/datatools-metadata.test.ts). */
+/** The caution stored in Arrow/Parquet metadata and printed by the CLI with every decode (test/cli/annotated-metadata.test.ts). */
 export const SAFETY_CAUTION =
   'Decoded positions are statistical estimates, not a safety function: never use them for collision avoidance or safety decisions; robot safety rests on the robot\'s own certified systems and local codes.';
 
