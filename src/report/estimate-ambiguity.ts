@@ -5,6 +5,10 @@ import { SeededRandom } from '../model/seeded-random.js';
 import { forwardScaled } from '../kernels/forward-scaled.js';
 import { backwardScaled } from '../kernels/backward-scaled.js';
 import { posteriorMarginals } from '../kernels/posterior-marginals.js';
+import { forwardMoveSegment } from '../kernels/forward-move-segment.js';
+import { backwardMoveScaled } from '../kernels/backward-move-scaled.js';
+import { sampleOdometry } from '../model/sample-odometry.js';
+import { moveStepsFromOdometry } from '../model/move-steps-from-odometry.js';
 
 export interface AmbiguityOptions {
   /** Simulated runs. @default 100 */
@@ -54,6 +58,8 @@ export interface AmbiguityEstimate {
   nSteps: number;
   /** Per named zone (index into `zones`; empty when the model has no zones), the same figures for zones. */
   zones: ZoneAmbiguity[];
+  /** True when the simulated runs carried wheel odometry and were decoded with the model's movement parameters. */
+  odometry: boolean;
 }
 
 /** How well decoding recovers one zone: the mean posterior of the true zone while the robot is in it. */
@@ -86,6 +92,9 @@ const CONFUSION_FLOOR = 0.01;
  * posterior of the true cell is tallied. A cell's recovery is the mean of γ_t(true) over the steps spent
  * in it: the probability that a decoder reading the posterior puts the robot in the right cell. Unlike
  * counting argmax hits it needs no tie-breaking, so two mirror-image rooms score alike (about ½ each).
+ * When the model has movement parameters (it was fitted on runs with wheel odometry), every simulated
+ * run also gets odometry (`sampleOdometry`, from a generator of its own) and is decoded with the
+ * per-step transitions, as the real runs are: the figures then say what decoding with odometry recovers.
  * Deterministic for a given model and options.
  */
 export function estimateAmbiguity(model: HmmModel, options: Partial<AmbiguityOptions> = {}): AmbiguityEstimate {
@@ -126,13 +135,31 @@ export function estimateAmbiguity(model: HmmModel, options: Partial<AmbiguityOpt
   const zoneCellRecoverySum = new Float64Array(nZones);
   const zoneConfusion = new Float64Array(nZones * nZones);
   const rng = new SeededRandom(o.seed);
+  const move = chain.move;
+  // Odometry draws come from a generator of their own, so the walks are the same with or without it.
+  const odometryRng = new SeededRandom(o.seed + 1_000_003);
+  const moveTable = move ? new Float64Array((T + 1) * n) : alpha;
+  const moveWork = move ? new Float64Array(2 * n) : alpha;
   let nSteps = 0;
   for (let r = 0; r < o.runs; r++) {
     const { cells, obs } = sampleRun(model, T, rng, o.dropoutRate);
-    const logLik = forwardScaled(chain, obs, T, alpha, scale);
-    if (!Number.isFinite(logLik)) continue; // cannot happen for a run drawn from the model itself
-    backwardScaled(chain, obs, T, scale, beta);
-    posteriorMarginals(n, T, alpha, beta, gamma);
+    if (move) {
+      const { moved, heading } = sampleOdometry(model, cells, odometryRng);
+      const steps = moveStepsFromOdometry(moved, heading);
+      const logLik = forwardMoveSegment(chain, move, obs, steps, 0, T, moveTable, scale, 0, moveWork);
+      if (!Number.isFinite(logLik)) continue;
+      backwardMoveScaled(chain, move, obs, steps, T, scale, beta);
+      // α̂_t = c_t u_t, with u_t in row t + 1 of the forward table.
+      for (let t = 0; t < T; t++) {
+        const c = scale[t];
+        for (let j = 0; j < n; j++) gamma[t * n + j] = c * moveTable[(t + 1) * n + j] * beta[t * n + j];
+      }
+    } else {
+      const logLik = forwardScaled(chain, obs, T, alpha, scale);
+      if (!Number.isFinite(logLik)) continue; // cannot happen for a run drawn from the model itself
+      backwardScaled(chain, obs, T, scale, beta);
+      posteriorMarginals(n, T, alpha, beta, gamma);
+    }
     for (let t = 0; t < T; t++) {
       const row = t * n;
       const truth = cells[t];
@@ -211,5 +238,5 @@ export function estimateAmbiguity(model: HmmModel, options: Partial<AmbiguityOpt
       ambiguous: v >= o.minVisits && rec < o.threshold,
     };
   });
-  return { options: o, visits, recovery, nearRecovery, errorM, confusedWith, confusedP, ambiguous, nSteps, zones };
+  return { options: o, visits, recovery, nearRecovery, errorM, confusedWith, confusedP, ambiguous, nSteps, zones, odometry: move !== undefined };
 }
