@@ -61,9 +61,13 @@ const single = time('plain E-step, one run at a time (JavaScript)', () => {
   // accumulateBlock sends a lone run through the single-run kernels: blocks of one run.
   for (let r = 0; r < runs.length; r++) accumulateBlock(plainChain, plainPacked, [r], wsJs, 'tied');
 });
-const move = time('movement E-step, JavaScript lanes (tied)', () => blocks.forEach((b) => accumulateBlock(moveChain, movePacked, b, wsMove, 'tied')));
+const wsMoveJs = new EStepWorkspace();
+wsMoveJs.useWasm = false;
+const moveWasm = time('movement E-step, WebAssembly lanes (tied)', () => blocks.forEach((b) => accumulateBlock(moveChain, movePacked, b, wsMove, 'tied')));
+const move = time('movement E-step, JavaScript lanes (tied)', () => blocks.forEach((b) => accumulateBlock(moveChain, movePacked, b, wsMoveJs, 'tied')));
 const moveSingle = time('movement E-step, one run at a time (JavaScript)', () => {
-  for (let r = 0; r < runs.length; r++) accumulateBlock(moveChain, movePacked, [r], wsMove, 'tied');
+  for (let r = 0; r < runs.length; r++) accumulateBlock(moveChain, movePacked, [r], wsMoveJs, 'tied');
 });
+process.stdout.write(`movement WebAssembly lanes / plain WebAssembly lanes: ${(moveWasm / wasm).toFixed(2)}× (target ≤ 1.5×); movement / plain JavaScript lanes: ${(move / js).toFixed(2)}×\n`);
 process.stdout.write(`movement JavaScript lanes / plain WebAssembly lanes: ${(move / wasm).toFixed(2)}×; / plain JavaScript lanes: ${(move / js).toFixed(2)}×\n`);
 process.stdout.write(`movement one run at a time / plain one run at a time: ${(moveSingle / single).toFixed(2)}×\n`);

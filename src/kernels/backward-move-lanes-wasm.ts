@@ -20,16 +20,19 @@ import { WasmFunction } from './wasm-function.js';
  * entry T, past the group's end, is "unknown" in every lane); `pHeadAt` (i32 per step and lane: byte
  * address of the lane's row of `moveByHeading`); `pDBin`, `pHBin` (i32 per step and lane, −1 =
  * unknown); `pStayByDistance`, `pMoveByDistance`, `pHeadingCos`, `pHeadingSin` (the movement counts);
- * `pLinkCos`, `pLinkSin` (f64 per link, out order). Every count is ADDED.
+ * `pLinkCos`, `pLinkSin` (f64 per link, out order); `pAnyUnknown` (i32 per step: 1 where some lane's distance
+ * is unknown). Every count is ADDED, except that row `nHeadingBins` of `moveByHeading` (steps of unknown
+ * heading, discarded by the M-step) is not written: a lane's `pHeadAt` entry is 0 there.
  *
  * Masked lanes add an exact +0 instead of being skipped, which leaves every (non-negative) sum
- * unchanged, so the sums equal the JavaScript kernel's branches.
+ * unchanged, so the sums equal the JavaScript kernel's branches; the plain dwell and move totals are
+ * skipped at steps where every lane's distance is known (they would add +0).
  */
 export function backwardMoveLanesWasm(): WasmFunction {
-  const nParams = 30;
+  const nParams = 31;
   const f = new WasmFunction(Array<'i32'>(nParams).fill('i32'));
   const [n, t0, t1, pDwell, pOutPtr, pOutIdx, pEmit, pRows, pLens, pTable, pScale, pW, pWSpare, pEmitCount, pStartCount, pDwellCount, pMoveCount,
-    pElig, pStay, pKnown, pSplitAt, pHeadAt, pDBin, pHBin, pStayByDistance, pMoveByDistance, pHeadingCos, pHeadingSin, pLinkCos, pLinkSin] =
+    pElig, pStay, pKnown, pSplitAt, pHeadAt, pDBin, pHBin, pStayByDistance, pMoveByDistance, pHeadingCos, pHeadingSin, pLinkCos, pLinkSin, pAnyUnknown] =
     Array.from({ length: nParams }, (_, i) => i);
   const t = f.local('i32');
   const stride = f.local('i32');
@@ -49,6 +52,7 @@ export function backwardMoveLanesWasm(): WasmFunction {
   const q8 = f.local('i32');
   const cell = f.local('i32');
   const bin = f.local('i32');
+  const anyUnknown = f.local('i32');
   const e = Array.from({ length: 8 }, () => f.local('i32'));
   const ec = Array.from({ length: 8 }, () => f.local('i32'));
   const so = Array.from({ length: 8 }, () => f.local('i32'));
@@ -106,6 +110,7 @@ export function backwardMoveLanesWasm(): WasmFunction {
     f.get(t).i32(6).i32Shl().set(rowStep);
     f.get(rowStep).i32(64).i32Add().set(nextStep);
     f.get(t).i32(1).i32Add().i32(5).i32Shl().set(nextStep4);
+    f.get(pAnyUnknown).get(t).i32(2).i32Shl().i32Add().i32Load(4).set(anyUnknown);
     for (let k = 0; k < 8; k++) {
       f.get(pRows).get(t).i32(5).i32Shl().i32Add().i32Load(4 * k).tee(e[k]).get(pEmit).i32Sub().get(pEmitCount).i32Add().set(ec[k]);
       f.get(pSplitAt).get(t).i32(5).i32Shl().i32Add().i32Load(32 + 4 * k).set(so[k]);
@@ -166,7 +171,9 @@ export function backwardMoveLanesWasm(): WasmFunction {
         f.get(xs[k]).get(um[k]).get(ls[k]).f64x2Mul().f64x2Add().set(xs[k]);
       }
       for (let k = 0; k < 8; k++) {
-        f.get(hd[k]).get(cell).i32Add().tee(v).get(v).f64Load().get(ml[k >> 1]).f64x2ExtractLane((k & 1) as 0 | 1).f64Add().f64Store();
+        f.get(hd[k]).when(() => {
+          f.get(hd[k]).get(cell).i32Add().tee(v).get(v).f64Load().get(ml[k >> 1]).f64x2ExtractLane((k & 1) as 0 | 1).f64Add().f64Store();
+        });
       }
       // Steps of unknown distance: plain dwell and move totals (lane order); known: per distance bin.
       for (let k = 0; k < 4; k++) {
@@ -176,10 +183,12 @@ export function backwardMoveLanesWasm(): WasmFunction {
         f.get(goes[k]).get(ml[k]).get(kn[k]).get(mask).v128And().v128And().f64x2Add().set(goes[k]);
         f.get(w).set(ud[k]); // ud now holds the masked moves (ud is not needed any more)
       }
-      f.get(pDwellCount).get(cell).i32Add().set(v);
-      addLanesInOrder(g);
-      f.get(pMoveCount).get(cell).i32Add().set(v);
-      addLanesInOrder(ud);
+      f.get(anyUnknown).when(() => {
+        f.get(pDwellCount).get(cell).i32Add().set(v);
+        addLanesInOrder(g);
+        f.get(pMoveCount).get(cell).i32Add().set(v);
+        addLanesInOrder(ud);
+      });
       for (let k = 0; k < 4; k++) {
         f.get(d[k]).get(m[k]).get(l[k]).f64x2Mul().f64x2Add().get(z[k]).f64x2Add().set(l[k]); // β'
         f.get(u[k]).get(l[k]).f64x2Mul().set(g[k]);

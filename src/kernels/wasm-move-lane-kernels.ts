@@ -42,7 +42,8 @@ const align = (bytes: number): number => Math.ceil(bytes / 16) * 16;
  * chain with its movement tables (copied in when a new chain arrives; `eligible` as 16-byte lane
  * masks), the group (emission-row addresses, lane lengths) and, per step and lane, what the odometry
  * selects — the staying probability of the distance bin with an all-ones mask where it is known, the
- * byte addresses of the heading bin's rows of `splitIn`, `splitOut` and `moveByHeading`, and the bins
+ * byte addresses of the heading bin's rows of `splitIn`, `splitOut` and `moveByHeading` (0 where the
+ * heading is unknown: those moves are not kept), whether any lane's distance is unknown, and the bins
  * themselves (entry t for the transition into step t; entry T, past the end, unknown in every lane) —
  * then the scaling factors, ŵ vectors, scratch, the accumulators and, last, the forward table.
  * `create` returns null when the runtime refuses a memory; `prepare` returns false when it refuses to
@@ -107,6 +108,7 @@ export class WasmMoveLaneKernels {
     const dBin = new Int32Array(buffer, a.dBin, (T + 1) * LANES);
     const hBin = new Int32Array(buffer, a.hBin, (T + 1) * LANES);
     const H = move.nHeadingBins;
+    const anyUnknown = new Int32Array(buffer, a.anyUnknown, T + 1).fill(0);
     for (let x = 0; x < (T + 1) * LANES; x++) {
       const db = x < T * LANES ? moves.dBin[x] : -1;
       const hb = x < T * LANES ? moves.hBin[x] : -1;
@@ -115,8 +117,9 @@ export class WasmMoveLaneKernels {
       known[2 * x] = known[2 * x + 1] = db >= 0 ? -1 : 0;
       splitInAt[x] = a.splitIn + 8 * row * links;
       splitOutAt[x] = a.splitOut + 8 * row * links;
-      headAt[x] = a.moveByHeading + 8 * row * n;
+      headAt[x] = hb < 0 ? 0 : a.moveByHeading + 8 * row * n;
       dBin[x] = db;
+      if (db < 0) anyUnknown[Math.floor(x / LANES)] = 1;
       hBin[x] = hb;
     }
     return true;
@@ -149,7 +152,7 @@ export class WasmMoveLaneKernels {
     this.kernels.backward(
       this.dims.n, t0, t1, a.dwell, a.outPtr, a.outIdx, a.emit, a.rows, a.lens, a.table, a.scale, a.w, a.wSpare, a.emitCount, a.startCount,
       a.dwellCount, a.moveCount, a.elig, a.stay, a.known, a.splitOutAt, a.headAt, a.dBin, a.hBin, a.stayByDistance, a.moveByDistance,
-      a.headingCos, a.headingSin, a.linkCos, a.linkSin,
+      a.headingCos, a.headingSin, a.linkCos, a.linkSin, a.anyUnknown,
     );
   }
 
@@ -177,6 +180,7 @@ export class WasmMoveLaneKernels {
       ['splitOutAt', 4 * LANES * (steps + 1)],
       ['headAt', 4 * LANES * (steps + 1)],
       ['dBin', 4 * LANES * (steps + 1)],
+      ['anyUnknown', 4 * (steps + 1)],
       ['hBin', 4 * LANES * (steps + 1)],
       ['scale', 8 * LANES * steps],
       ['sums', 8 * LANES * steps],

@@ -80,7 +80,17 @@ function freshAcc(n: number, m: number): MoveLaneAccumulators {
   };
 }
 
-const plain = (acc: MoveLaneAccumulators): Record<string, number[]> => Object.fromEntries(Object.entries(acc).map(([k, v]) => [k, Array.from(v as Float64Array)]));
+/**
+ * The accumulators as arrays, without the rows of unknown heading (`moveByHeading`'s last row, the last
+ * entry of `headingCos` / `headingSin`): the M-step discards them and the WebAssembly kernel skips them.
+ */
+const plain = (acc: MoveLaneAccumulators, n: number): Record<string, number[]> =>
+  Object.fromEntries(
+    Object.entries(acc).map(([k, v]) => {
+      const x = Array.from(v as Float64Array);
+      return [k, k === 'moveByHeading' ? x.slice(0, HEADING_BINS * n) : k === 'headingCos' || k === 'headingSin' ? x.slice(0, HEADING_BINS) : x];
+    }),
+  );
 
 /** A whole forward-backward pass of one group in segments of `segment` steps, by the JavaScript lanes. */
 function passJs(chain: SparseChain, runs: TinyRun[], segment: number) {
@@ -117,7 +127,7 @@ function passJs(chain: SparseChain, runs: TinyRun[], segment: number) {
     }
     backwardMoveLanes(chain, chain.move!, group, moves, a, b, table, scale, w, wSpare, acc);
   }
-  return { logs: Array.from(logs), tables, acc: plain(acc), w: Array.from(w) };
+  return { logs: Array.from(logs), tables, acc: plain(acc, n) };
 }
 
 /** The same pass through `WasmMoveLaneKernels`. */
@@ -150,7 +160,7 @@ function passWasm(kernels: WasmMoveLaneKernels, chain: SparseChain, runs: TinyRu
     }
     kernels.backward(a, b);
   }
-  const out = { logs: Array.from(logs), tables, acc: plain(kernels.accumulators) };
+  const out = { logs: Array.from(logs), tables, acc: plain(kernels.accumulators, n) };
   for (const x of Object.values(kernels.accumulators)) (x as Float64Array).fill(0);
   return out;
 }
