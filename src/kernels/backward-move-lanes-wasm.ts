@@ -52,6 +52,7 @@ export function backwardMoveLanesWasm(): WasmFunction {
   const q8 = f.local('i32');
   const cell = f.local('i32');
   const bin = f.local('i32');
+  const first = f.local('i32');
   const anyUnknown = f.local('i32');
   const e = Array.from({ length: 8 }, () => f.local('i32'));
   const ec = Array.from({ length: 8 }, () => f.local('i32'));
@@ -150,20 +151,25 @@ export function backwardMoveLanesWasm(): WasmFunction {
         f.get(zero).set(ls[k]);
       }
       f.get(pOutPtr).get(i).i32(2).i32Shl().i32Add().tee(v).i32Load(4).set(end);
-      f.forRange(q, () => f.get(v).i32Load(0), () => f.get(end), () => {
-        f.get(next).get(pOutIdx).get(q).i32(2).i32Shl().i32Add().i32Load().i32(6).i32Shl().i32Add().set(v);
-        f.get(q).i32(3).i32Shl().set(q8);
-        f.get(pLinkCos).get(q8).i32Add().f64Load().f64x2Splat().set(cq);
-        f.get(pLinkSin).get(q8).i32Add().f64Load().f64x2Splat().set(sq);
-        for (let k = 0; k < 4; k++) {
-          f.get(so[2 * k]).get(q8).i32Add().f64Load().f64x2Splat();
-          f.get(so[2 * k + 1]).get(q8).i32Add().f64Load().f64x2ReplaceLane(1);
-          f.get(v).v128Load(16 * k).f64x2Mul().set(w);
-          f.get(l[k]).get(w).f64x2Add().set(l[k]);
-          f.get(lc[k]).get(w).get(cq).f64x2Mul().f64x2Add().set(lc[k]);
-          f.get(ls[k]).get(w).get(sq).f64x2Mul().f64x2Add().set(ls[k]);
-        }
-      });
+      f.get(v).i32Load(0).set(first);
+      // Two passes over the links, lanes 0–3 then 4–7: twelve running sums at once would not fit the
+      // machine's vector registers.
+      for (const half of [0, 1]) {
+        f.forRange(q, () => f.get(first), () => f.get(end), () => {
+          f.get(next).get(pOutIdx).get(q).i32(2).i32Shl().i32Add().i32Load().i32(6).i32Shl().i32Add().set(v);
+          f.get(q).i32(3).i32Shl().set(q8);
+          f.get(pLinkCos).get(q8).i32Add().f64Load().f64x2Splat().set(cq);
+          f.get(pLinkSin).get(q8).i32Add().f64Load().f64x2Splat().set(sq);
+          for (let k = 2 * half; k < 2 * half + 2; k++) {
+            f.get(so[2 * k]).get(q8).i32Add().f64Load().f64x2Splat();
+            f.get(so[2 * k + 1]).get(q8).i32Add().f64Load().f64x2ReplaceLane(1);
+            f.get(v).v128Load(16 * k).f64x2Mul().set(w);
+            f.get(l[k]).get(w).f64x2Add().set(l[k]);
+            f.get(lc[k]).get(w).get(cq).f64x2Mul().f64x2Add().set(lc[k]);
+            f.get(ls[k]).get(w).get(sq).f64x2Mul().f64x2Add().set(ls[k]);
+          }
+        });
+      }
       for (let k = 0; k < 4; k++) {
         f.get(um[k]).get(l[k]).f64x2Mul().set(ml[k]);
         f.get(u[k]).get(d[k]).f64x2Mul().set(ud[k]);
