@@ -6,8 +6,9 @@
  *
  * Rows: plain E-step with the WebAssembly lanes, with the JavaScript lanes and one run at a time, and
  * the E-step with movement columns (distance known at every step, heading at every move) with the
- * JavaScript movement lanes and one run at a time. Printed: median and fastest pass in ns
- * per step-link (total steps × transition nonzeros), and the movement cost relative to each plain one.
+ * WebAssembly movement lanes, the JavaScript movement lanes and one run at a time. Printed: median
+ * and fastest pass in ns per step-link (total steps × transition nonzeros), and the movement cost
+ * relative to each plain one — first movement WebAssembly / plain WebAssembly, the issue's target.
  */
 import { makeScenario } from './make-scenario.js';
 import { chainFromModel } from '../src/model/chain-from-model.js';
