@@ -6,8 +6,9 @@
  *
  * Rows: plain E-step with the WebAssembly lanes, with the JavaScript lanes and one run at a time, and
  * the E-step with movement columns (distance known at every step, heading at every move) with the
- * JavaScript movement lanes and one run at a time. Printed: median and fastest pass in ns
- * per step-link (total steps × transition nonzeros), and the movement cost relative to each plain one.
+ * WebAssembly movement lanes, the JavaScript movement lanes and one run at a time. Printed: median
+ * and fastest pass in ns per step-link (total steps × transition nonzeros), and the movement cost
+ * relative to each plain one — first movement WebAssembly / plain WebAssembly, the issue's target.
  */
 import { makeScenario } from './make-scenario.js';
 import { chainFromModel } from '../src/model/chain-from-model.js';
@@ -61,9 +62,13 @@ const single = time('plain E-step, one run at a time (JavaScript)', () => {
   // accumulateBlock sends a lone run through the single-run kernels: blocks of one run.
   for (let r = 0; r < runs.length; r++) accumulateBlock(plainChain, plainPacked, [r], wsJs, 'tied');
 });
-const move = time('movement E-step, JavaScript lanes (tied)', () => blocks.forEach((b) => accumulateBlock(moveChain, movePacked, b, wsMove, 'tied')));
+const wsMoveJs = new EStepWorkspace();
+wsMoveJs.useWasm = false;
+const moveWasm = time('movement E-step, WebAssembly lanes (tied)', () => blocks.forEach((b) => accumulateBlock(moveChain, movePacked, b, wsMove, 'tied')));
+const move = time('movement E-step, JavaScript lanes (tied)', () => blocks.forEach((b) => accumulateBlock(moveChain, movePacked, b, wsMoveJs, 'tied')));
 const moveSingle = time('movement E-step, one run at a time (JavaScript)', () => {
-  for (let r = 0; r < runs.length; r++) accumulateBlock(moveChain, movePacked, [r], wsMove, 'tied');
+  for (let r = 0; r < runs.length; r++) accumulateBlock(moveChain, movePacked, [r], wsMoveJs, 'tied');
 });
+process.stdout.write(`movement WebAssembly lanes / plain WebAssembly lanes: ${(moveWasm / wasm).toFixed(2)}× (target ≤ 1.5×); movement / plain JavaScript lanes: ${(move / js).toFixed(2)}×\n`);
 process.stdout.write(`movement JavaScript lanes / plain WebAssembly lanes: ${(move / wasm).toFixed(2)}×; / plain JavaScript lanes: ${(move / js).toFixed(2)}×\n`);
 process.stdout.write(`movement one run at a time / plain one run at a time: ${(moveSingle / single).toFixed(2)}×\n`);

@@ -4,13 +4,19 @@ import { viterbiMoveSegment } from '../kernels/viterbi-move-segment.js';
 import { segmentSteps } from '../kernels/segment-steps.js';
 import type { LogChain } from './log-chain.js';
 import { backPointerArray } from './back-pointer-array.js';
+import { WasmMoveViterbi } from '../kernels/wasm-move-viterbi.js';
+
+/** One WebAssembly Viterbi with odometry per thread, reused by every call (its memory grows to the largest run seen). */
+let wasm: WasmMoveViterbi | null | undefined;
 
 /**
  * `viterbiPath` for a run with odometry: the Viterbi path under per-step transitions
- * (`viterbiMoveSegment`, JavaScript), checkpointed the same way above `limitBytes`. Returns
- * log P(path, readings), or −Infinity (path filled with −1) when every path is impossible.
+ * (`viterbiMoveSegment`), checkpointed the same way above `limitBytes`. Runs as WebAssembly
+ * (`WasmMoveViterbi`: the same scores and back-pointers) where available and `useWasm` (and its memory
+ * can be had), else in JavaScript. Returns log P(path, readings), or −Infinity (path filled with −1)
+ * when every path is impossible.
  */
-export function viterbiMovePath(chain: SparseChain, log: LogChain, obs: Int32Array, steps: MoveSteps, limitBytes: number, pathOut: Int32Array): number {
+export function viterbiMovePath(chain: SparseChain, log: LogChain, obs: Int32Array, steps: MoveSteps, limitBytes: number, pathOut: Int32Array, useWasm = true): number {
   const move = chain.move!;
   const n = chain.nCells;
   const T = obs.length;
@@ -24,11 +30,23 @@ export function viterbiMovePath(chain: SparseChain, log: LogChain, obs: Int32Arr
   const logStay = Float64Array.from(move.stayByDistance, Math.log);
   const logGo = Float64Array.from(move.stayByDistance, (s) => Math.log(1 - s));
   const logSplitIn = Float64Array.from(move.splitIn, Math.log);
-  const delta = new Float64Array(2 * n);
-  const work = new Float64Array(2 * n);
-  const back = backPointerArray(n, segment * n);
-  const run = (a: number, b: number): void =>
-    viterbiMoveSegment(n, chain.nReadings, log.logStart, logDwell, logDwellGo, logStay, logGo, move, logSplitIn, chain.inPtr, chain.inIdx, log.logEmitT, obs, steps, a, b, delta, back, work);
+  if (useWasm && wasm === undefined) wasm = WasmMoveViterbi.available() ? WasmMoveViterbi.create() : null;
+  // A WebAssembly memory that cannot grow for this run leaves the JavaScript kernel to decode it.
+  const prepared = useWasm && wasm ? wasm.prepare(chain, { logStart: log.logStart, logDwell, logDwellGo, logStay, logGo, logSplitIn, logEmitT: log.logEmitT }, obs, steps, segment) : null;
+  let delta: Float64Array;
+  let back: Uint8Array | Uint16Array | Int32Array;
+  let run: (a: number, b: number) => void;
+  if (prepared) {
+    const machine = wasm as WasmMoveViterbi;
+    ({ delta, back } = prepared);
+    run = (a, b) => machine.run(a, b);
+  } else {
+    delta = new Float64Array(2 * n);
+    const work = new Float64Array(2 * n);
+    back = backPointerArray(n, segment * n);
+    run = (a, b) =>
+      viterbiMoveSegment(n, chain.nReadings, log.logStart, logDwell, logDwellGo, logStay, logGo, move, logSplitIn, chain.inPtr, chain.inIdx, log.logEmitT, obs, steps, a, b, delta, back, work);
+  }
   for (let g = 0; g < nSegments; g++) {
     if (g > 0) checkpoints.set(delta.subarray(0, n), g * n);
     run(g * segment, Math.min(T, (g + 1) * segment));

@@ -1,8 +1,11 @@
 import type { MoveLaneGroup } from '../kernels/forward-move-lanes.js';
 import type { MoveLaneAccumulators } from '../kernels/backward-move-lanes.js';
+import type { WasmMoveLaneKernels } from '../kernels/wasm-move-lane-kernels.js';
 
 /** Buffers of the movement lane kernels, grown on demand and never shrunk (one set per workspace). */
 export class MoveLaneBuffers {
+  /** The WebAssembly movement lane kernels (own memory), made on first use; null when the runtime refused a memory. */
+  wasm: WasmMoveLaneKernels | null | undefined = undefined;
   table: Float64Array = new Float64Array(0);
   scale: Float64Array = new Float64Array(0);
   w: Float64Array = new Float64Array(0);

@@ -111,6 +111,13 @@ export class WasmFunction {
   f64x2ReplaceLane(lane: 0 | 1): this { return this.simd(0x22, lane); }
   f64x2Add(): this { return this.simd(0xf0); }
   f64x2Mul(): this { return this.simd(0xf2); }
+  f64x2Sub(): this { return this.simd(0xf1); }
+  /** Bitwise and of two vectors (used with all-ones / all-zeros lane masks). */
+  v128And(): this { return this.simd(0x4e); }
+  /** a & ~b for the vectors a (below) and b (on top). */
+  v128AndNot(): this { return this.simd(0x4f); }
+  /** bitselect(a, b, mask): the bits of a where mask is 1, of b where it is 0 (a, b, mask pushed in that order). */
+  v128Bitselect(): this { return this.simd(0x52); }
 
   // Control.
   /** `block … end` with a body; inside, `br(0)` leaves the block. */

@@ -14,6 +14,10 @@ import { wasmMemoryRefused } from '../../src/kernels/wasm-memory.js';
 import { logChain } from '../../src/decode/log-chain.js';
 import { viterbiPath } from '../../src/decode/viterbi-path.js';
 import { gridFloor } from '../helpers/grid-floor.js';
+import { sampleOdometry } from '../../src/model/sample-odometry.js';
+import { moveStepsFromOdometry } from '../../src/model/move-steps-from-odometry.js';
+import { DEFAULT_MOVEMENT } from '../../src/model/default-movement.js';
+import { WasmMoveLaneKernels } from '../../src/kernels/wasm-move-lane-kernels.js';
 
 // Oracle: the same computation with WebAssembly memory available (the JavaScript lane kernels are
 // checked against the WebAssembly ones bit for bit in test/kernels/wasm-lane-kernels.test.ts). Here the
@@ -74,6 +78,38 @@ describe('the JavaScript kernels when WebAssembly memory cannot be had', () => {
       (WebAssembly as { Memory: unknown }).Memory = RealMemory;
       WebAssembly.Memory.prototype.grow = realGrow;
     }
+  });
+
+  it('an E-step with odometry (movement lanes) whose memory is refused, or cannot grow, gives the same bits', () => {
+    const moving = { ...truth, movement: DEFAULT_MOVEMENT };
+    const odoRng = new SeededRandom(12);
+    const withMoves = Array.from({ length: 11 }, (_, r) => {
+      const run = sampleRun(moving, 90 + 5 * r, odoRng, 0.05);
+      const od = sampleOdometry(moving, run.cells, odoRng);
+      return { id: `odo-${r}`, obs: run.obs, moves: moveStepsFromOdometry(od.moved, od.heading) };
+    });
+    const chain = chainFromModel(moving);
+    const packed = packRuns(withMoves);
+    const block = withMoves.map((_, r) => r);
+    const bytes = (x: Float64Array): Buffer => Buffer.from(x.buffer, x.byteOffset, x.byteLength);
+    const want = accumulateBlock(chain, packed, block, new EStepWorkspace(), 'tied').counts;
+    for (const refuse of [refuseMemory, refuseGrowth]) {
+      refuse();
+      const ws = new EStepWorkspace();
+      const got = accumulateBlock(chain, packed, block, ws, 'tied').counts;
+      expect(ws.useWasm).toBe(false);
+      // Refused memory: no kernels object; refused growth: one that could not be prepared.
+      if (refuse === refuseMemory) expect(ws.moveLanes!.wasm).toBeNull();
+      else expect(ws.moveLanes!.wasm).toBeInstanceOf(WasmMoveLaneKernels);
+      expect(got.logLik).toBe(want.logLik);
+      for (const key of ['trans', 'emitT', 'start'] as const) expect(bytes(got[key]).equals(bytes(want[key]))).toBe(true);
+      for (const key of ['stayByDistance', 'moveByDistance', 'moveByHeading', 'headingCos', 'headingSin'] as const) {
+        expect(bytes(got.move![key]).equals(bytes(want.move![key]))).toBe(true);
+      }
+      (WebAssembly as { Memory: unknown }).Memory = RealMemory;
+      WebAssembly.Memory.prototype.grow = realGrow;
+    }
+    expect(want.move!.stayByDistance.some((x) => x > 0)).toBe(true);
   });
 
   it('a whole fit gives byte-identical parameters and record without WebAssembly memory (1 and 2 threads)', async () => {

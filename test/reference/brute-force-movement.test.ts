@@ -79,7 +79,7 @@ describe('movement kernels against brute-force enumeration of all paths (per-ste
   }
 });
 
-describe('movement lane kernels (JavaScript) against brute-force enumeration, eight runs of different lengths', () => {
+describe('movement lane kernels (WebAssembly and JavaScript) against brute-force enumeration, eight runs of different lengths', () => {
   const rng = new SeededRandom(20261204);
   for (let trial = 0; trial < 15; trial++) {
     const nCells = 1 + rng.int(4);
@@ -89,13 +89,16 @@ describe('movement lane kernels (JavaScript) against brute-force enumeration, ei
       const T = 1 + rng.int(6);
       return { obs: Array.from({ length: T }, () => (rng.next() < 0.15 ? -1 : rng.int(nReadings))), ...randomMoveSteps(rng, T) };
     });
-    it(`log-likelihoods and totals-form E-step counts equal enumeration (trial ${trial}: ${nCells} cells, lengths ${runs.map((r) => r.obs.length).join(' ')})`, () => {
+    for (const useWasm of [true, false]) it(`log-likelihoods and totals-form E-step counts equal enumeration, ${useWasm ? 'WebAssembly' : 'JavaScript'} lanes (trial ${trial}: ${nCells} cells, lengths ${runs.map((r) => r.obs.length).join(' ')})`, () => {
       const model = randomMoveModel(seed, nCells, nReadings);
       const chain = chainFromModel(model);
       const packed = packRuns(runs.map((r, k) => ({ id: `r${k}`, obs: Int32Array.from(r.obs), moves: { dBin: Int32Array.from(r.dBin), hBin: Int32Array.from(r.hBin) } })));
       const counts = emptyCounts(nCells, chain.nnz, nReadings, true);
       const logs = new Float64Array(8);
-      expect(accumulateMoveLanes(chain, packed, [0, 1, 2, 3, 4, 5, 6, 7], counts, new EStepWorkspace(), logs)).toBe(true);
+      const ws = new EStepWorkspace();
+      ws.useWasm = useWasm;
+      expect(accumulateMoveLanes(chain, packed, [0, 1, 2, 3, 4, 5, 6, 7], counts, ws, logs)).toBe(true);
+      expect(ws.moveLanes!.wasm !== undefined).toBe(useWasm);
       const s = model.structure;
       const eligible = (i: number): boolean => chain.dwell[i] > 0 && chain.dwell[i] < 1;
       const dwell = new Float64Array(nCells);
