@@ -14,6 +14,11 @@ const DEFAULT_PLAIN_LIMIT_BYTES = 64 * 1024 * 1024;
 export interface LaneDecodeOptions extends DecodeOptions {
   /** @default true */
   useWasm?: boolean;
+  /**
+   * Only the Viterbi paths and their log-probabilities (`viterbiPath`'s work); the other outputs stay
+   * as for an impossible run (NaN / −1) and `logLik` is 0. @default false
+   */
+  viterbiOnly?: boolean;
 }
 
 /** One WebAssembly decoder per thread, reused (its memory grows to the largest group seen); null where unavailable. */
@@ -65,7 +70,7 @@ export function decodeLanes(chain: SparseChain, lanes: LogLanes, runs: ReadonlyA
   const row = LANES * n;
   const pointerBytes = n <= 256 ? 1 : n <= 65536 ? 2 : 4;
   const vSegment = segmentSteps(nSteps, row * pointerBytes, limit);
-  const segment = segmentSteps(nSteps, 8 * row, limit);
+  const segment = options.viterbiOnly ? 1 : segmentSteps(nSteps, 8 * row, limit);
 
   let kernels: DecodeLaneKernels | null = null;
   if (options.useWasm !== false) {
@@ -126,6 +131,8 @@ export function decodeLanes(chain: SparseChain, lanes: LogLanes, runs: ReadonlyA
       cellOf[k] = cell;
     }
   }
+
+  if (options.viterbiOnly) return results;
 
   // Forward, keeping the entry rows of every segment when checkpointed.
   const nF = Math.ceil(nSteps / segment);

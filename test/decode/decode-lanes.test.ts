@@ -125,7 +125,7 @@ describe('decodeLanes equals decodeRun, bit for bit', () => {
     const options = { positions: positionLayout(model).groups, plainLimitBytes: 300000 };
     const a = decodeLanes(chain, lanes, runs, { ...options, useWasm: true });
     const b = decodeLanes(chain, lanes, runs, { ...options, useWasm: false });
-    runs.forEach((obs, k) => expectIdentical(a[k], b[k], `run ${k}`));
+    runs.forEach((_, k) => expectIdentical(a[k], b[k], `run ${k}`));
     runs.forEach((obs, k) => expectIdentical(a[k], decodeRun(chain, logChain(chain), obs, options), `run ${k} vs decodeRun`));
   });
 });
