@@ -5,7 +5,7 @@ import { log2LanesWasm } from './log2-lanes-wasm.js';
 export const SUMMARY_PARAMS = [
   'n', 't0', 't1', 'dwell', 'outPtr', 'outIdx', 'outProb', 'rows', 'lens', 'table', 'scale', 'w', 'wSpare', 'gamma', 'path',
   'likelyCell', 'likelyP', 'pathP', 'entropy',
-  'nZones', 'nLevels', 'zoneOf', 'levelOf', 'dx', 'dy', 'r2', 'originX', 'originY', 'work',
+  'nZones', 'cellAreas', 'nLevels', 'zoneOf', 'levelOf', 'dx', 'dy', 'r2', 'originX', 'originY', 'work',
   'likelyZone', 'zoneP', 'meanLevel', 'meanX', 'meanY', 'spread',
 ] as const;
 
@@ -19,7 +19,8 @@ export const SUMMARY_PARAMS = [
  *
  * The log2 is `log2LanesWasm` (vectorised, the same numbers as `Math.log2`), taken on every lane and
  * masked where γ = 0, so the cell loop has no branch. The argmax of γ (first maximum), the most likely
- * area and the level of most mass are `pmax`/`bitselect` scans; γ at each lane's path cell, the mean and
+ * area and the level of most mass are `pmax`/`bitselect` scans (the area scan skipped when `cellAreas`:
+ * every area is one cell, area i = cell i, so the cell scan is the area scan); γ at each lane's path cell, the mean and
  * the spread are scalar per lane. Parameters: `SUMMARY_PARAMS` (byte offsets into the memory laid out
  * by `WasmDecodeLanes`; per-step outputs at `(t - t0) × 8 + k`).
  */
@@ -114,7 +115,7 @@ export function posteriorSummaryLanesWasm(positions: boolean): WasmFunction {
     resetScan();
     for (let k = 0; k < 4; k++) f.f64(0).f64x2Splat().set(h[k]);
     if (positions) {
-      f.forRange(i, () => f.i32(0), () => f.get(nWork), () => {
+      f.forRange(i, () => f.get(P.nZones).i32(0).get(P.cellAreas).select(), () => f.get(nWork), () => {
         f.get(P.work).get(i).i32(6).i32Shl().i32Add().set(x);
         for (let k = 0; k < 4; k++) f.get(x).f64(0).f64x2Splat().v128Store(16 * k);
       });
@@ -149,8 +150,10 @@ export function posteriorSummaryLanesWasm(positions: boolean): WasmFunction {
       }
       scan(g);
       if (positions) {
-        f.get(P.work).get(P.zoneOf).get(i).i32(2).i32Shl().i32Add().i32Load().i32(6).i32Shl().i32Add().set(wz);
-        addInto(wz, (k) => f.get(g[k]));
+        f.get(P.cellAreas).i32(0).i32Eq().when(() => {
+          f.get(P.work).get(P.zoneOf).get(i).i32(2).i32Shl().i32Add().i32Load().i32(6).i32Shl().i32Add().set(wz);
+          addInto(wz, (k) => f.get(g[k]));
+        });
         f.get(P.work).get(P.nZones).get(P.levelOf).get(i).i32(2).i32Shl().i32Add().i32Load().i32(2).i32Shl().i32Add().i32(6).i32Shl().i32Add().set(wz);
         addInto(wz, (k) => f.get(g[k]));
         f.get(P.dx).get(cell).i32Add().f64Load().f64x2Splat().set(splat);
@@ -177,13 +180,17 @@ export function posteriorSummaryLanesWasm(positions: boolean): WasmFunction {
       f.f64Store(8 * k);
     }
     if (positions) {
-      // Most likely area (first maximum) and the level of most mass, as scans over the work rows.
-      resetScan();
-      f.forRange(i, () => f.i32(0), () => f.get(P.nZones), () => {
-        f.get(i).i32x4Splat().set(idx);
-        f.get(P.work).get(i).i32(6).i32Shl().i32Add().set(x);
-        for (let k = 0; k < 4; k++) f.get(x).v128Load(16 * k).set(g[k]);
-        scan(g);
+      // Most likely area (first maximum) and the level of most mass, as scans over the work rows. When
+      // every area is one cell, numbered as the cells (a floor without zones), an area's mass is 0 + γ = γ
+      // and the area scan is the cell scan: its result is taken as it stands.
+      f.get(P.cellAreas).i32(0).i32Eq().when(() => {
+        resetScan();
+        f.forRange(i, () => f.i32(0), () => f.get(P.nZones), () => {
+          f.get(i).i32x4Splat().set(idx);
+          f.get(P.work).get(i).i32(6).i32Shl().i32Add().set(x);
+          for (let k = 0; k < 4; k++) f.get(x).v128Load(16 * k).set(g[k]);
+          scan(g);
+        });
       });
       for (let k = 0; k < 8; k++) {
         f.get(P.likelyZone).get(ob).i32(1).i32ShrU().i32Add().get(bestI[k >> 1]).i32x4ExtractLane(((k & 1) * 2) as 0 | 2).i32Store(4, 4 * k);

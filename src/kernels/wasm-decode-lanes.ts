@@ -74,6 +74,8 @@ export class WasmDecodeLanes implements DecodeLaneKernels {
   private n = 0;
   private width: 1 | 2 | 4 = 1;
   private positions: PositionGroups | null = null;
+  /** True when every area is one cell, area i = cell i (a floor without zones). */
+  private cellAreas = false;
   private sums: Float64Array = new Float64Array(0);
   private lens = new Int32Array(LANES);
   private key = '';
@@ -156,6 +158,7 @@ export class WasmDecodeLanes implements DecodeLaneKernels {
     this.n = n;
     this.width = width;
     this.positions = positions;
+    this.cellAreas = positions !== null && positions.nZones === n && positions.zoneOf.every((z, i) => z === i);
     const reload = key !== this.key || this.loaded?.chain !== chain || this.loaded?.log !== log || this.loaded?.positions !== positions;
     this.key = key;
     if (reload) {
@@ -247,7 +250,7 @@ export class WasmDecodeLanes implements DecodeLaneKernels {
     kernel(
       this.n, t0, t1, a.dwell, a.outPtr, a.outIdx, a.outProb, a.rows, a.lens, a.table, a.scale, a.w, a.wSpare, a.gamma, a.path,
       a.likelyCell, a.likelyP, a.pathP, a.entropy,
-      p ? p.nZones : 0, p ? p.nLevels : 0, a.zoneOf, a.levelOf, a.dx, a.dy, a.r2, a.originX, a.originY, a.work,
+      p ? p.nZones : 0, this.cellAreas ? 1 : 0, p ? p.nLevels : 0, a.zoneOf, a.levelOf, a.dx, a.dy, a.r2, a.originX, a.originY, a.work,
       a.likelyZone, a.zoneP, a.meanLevel, a.meanX, a.meanY, a.spread,
     );
   }
