@@ -31,21 +31,22 @@ export function log2LanesWasm(f: WasmFunction): (x: number, out: number) => void
   const [lg1, lg2, lg3, lg4, lg5, lg6, lg7] = LOG2_LG;
   const c = (v: number): void => void f.v128ConstF64(v);
   return (x, out) => {
-    // Subnormal lanes: scale by 2^54 and take 54 off the exponent.
-    f.get(x).v128ConstF64(2.2250738585072014e-308).f64x2Lt().set(sub);
-    f.get(x).v128ConstF64(LOG2_TWO54).f64x2Mul().get(x).get(sub).v128Bitselect().tee(xs).set(bits);
-    f.v128ConstI64(-1, -54).v128ConstI64(0, 0).get(sub).v128Bitselect().set(k);
-    // hx = high word; k += (hx >> 20) − 1023; hx &= 0xfffff.
-    f.get(bits).i32(32).i64x2ShrU().set(hx);
-    f.get(k).get(hx).i32(20).i64x2ShrU().i64x2Add().v128ConstI64(-1, -1023).i64x2Add().set(k);
-    f.get(hx).v128ConstI64(0, 0x000fffff).v128And().set(hx);
-    // i = (hx + 0x95f64) & 0x100000; high word := hx | (i ^ 0x3ff00000); k += i >> 20.
-    f.get(hx).v128ConstI64(0, 0x95f64).i64x2Add().v128ConstI64(0, 0x100000).v128And().set(i);
-    f.get(hx).get(i).v128ConstI64(0, 0x3ff00000).v128Xor().v128Or().i32(32).i64x2Shl();
-    f.get(bits).v128ConstI64(0, 0xffffffff).v128And().v128Or().set(xs);
-    f.get(k).get(i).i32(20).i64x2ShrU().i64x2Add().set(k);
-    // y = (double) k, exactly: the bits of 2^52 + 2^51 + k, less 2^52 + 2^51.
-    f.get(k).v128ConstI64(0x43380000, 0).i64x2Add().v128ConstF64(6755399441055744.0).f64x2Sub().set(y);
+    // Subnormal lanes (rare: tested for first): scale by 2^54 and take 54 off the exponent.
+    f.get(x).set(xs);
+    f.v128ConstI64(0, 0).set(k);
+    f.get(x).v128ConstF64(2.2250738585072014e-308).f64x2Lt().tee(sub).v128AnyTrue().when(() => {
+      f.get(x).v128ConstF64(LOG2_TWO54).f64x2Mul().get(x).get(sub).v128Bitselect().set(xs);
+      f.v128ConstI64(-1, -54).v128ConstI64(0, 0).get(sub).v128Bitselect().set(k);
+    });
+    // On the 64-bit words (hx = the high word): i = (hx & 0xfffff) + 0x95f64) & 0x100000 in the high word;
+    // the high word := (hx & 0xfffff) | (i ^ 0x3ff00000), the low word kept; k += (hx >> 20) − 1023 + (i >> 20).
+    f.get(xs).v128ConstI64(0x000fffff, -1).v128And().tee(hx);
+    f.v128ConstI64(0x95f64, 0).i64x2Add().v128ConstI64(0x100000, 0).v128And().set(i);
+    f.get(hx).get(i).v128ConstI64(0x3ff00000, 0).v128Xor().v128Or().set(bits);
+    f.get(k).get(xs).i32(52).i64x2ShrU().i64x2Add().get(i).i32(52).i64x2ShrU().i64x2Add().set(k);
+    f.get(bits).set(xs);
+    // y = (double) (k − 1023), exactly: the bits of 2^52 + 2^51 + k − 1023, less 2^52 + 2^51.
+    f.get(k).v128ConstI64(0x4337ffff, 0xfffffc01).i64x2Add().v128ConstF64(6755399441055744.0).f64x2Sub().set(y);
     // f = x − 1, hfsq = 0.5 f f, and k_log1p(f) = s (hfsq + R).
     f.get(xs).v128ConstF64(1.0).f64x2Sub().set(fr);
     c(0.5);

@@ -136,6 +136,8 @@ export class WasmFunction {
   f64x2Lt(): this { return this.simd(0x49); }
   f64x2Gt(): this { return this.simd(0x4a); }
   v128And(): this { return this.simd(0x4e); }
+  /** v128.any_true: i32 1 when any bit is set. */
+  v128AnyTrue(): this { return this.simd(0x53); }
   v128Or(): this { return this.simd(0x50); }
   v128Xor(): this { return this.simd(0x51); }
   /** bitselect(a, b, mask): bits of a where mask is 1, else of b. */
