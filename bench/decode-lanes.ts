@@ -4,7 +4,7 @@
  *     npm run build && node dist/bench/decode-lanes.js [runs] [repeats] [size]
  *
  * Times, over the first `runs` runs (default 48, a multiple of 8) of the scenario, `repeats` passes each
- * (default 5; the fastest and the median are printed, in ns per step-link = total steps × transition
+ * (default 5; the fastest and the median are printed, wall clock and process CPU time, in ns per step-link = total steps × transition
  * nonzeros): the Viterbi path (`viterbiPath` per run, against `decodeLanes` with `viterbiOnly`) and the
  * full decode with every annotated column (`decodeRun` with positions per run, against `decodeLanes`),
  * the lanes in WebAssembly SIMD and in JavaScript. Every pass's outputs are checked to be the same bit
@@ -76,16 +76,21 @@ const rows: Array<[string, boolean, Pass]> = [
 ];
 
 console.log(`decode-lanes: ${size} scenario, ${chain.nCells} cells, ${chain.nnz} transition nonzeros, ${runs.length} runs x ${runs[0].length} steps, ${repeats} passes; Node ${process.version}`);
-console.log('ns/step-link = seconds x 1e9 / (total steps x nonzeros); fastest and median of the passes; "check" compares every output with the one-run decoder, bit for bit');
-console.log(['operation', 'fastest', 'median', 'check'].join('\t'));
+console.log('ns/step-link = seconds x 1e9 / (total steps x nonzeros), wall clock and process CPU time (the latter less disturbed by other work on a busy machine);');
+console.log('fastest and median of the passes; "check" compares every output with the one-run decoder, bit for bit');
+console.log(['operation', 'wall fastest', 'wall median', 'cpu fastest', 'cpu median', 'check'].join('\t'));
 for (const [name, full, pass] of rows) {
   pass(); // warm-up
   const times: number[] = [];
+  const cpu: number[] = [];
   let check = 'same';
   for (let r = 0; r < repeats; r++) {
+    const c0 = process.cpuUsage();
     const t0 = process.hrtime.bigint();
     const got = pass();
     times.push(Number(process.hrtime.bigint() - t0));
+    const c = process.cpuUsage(c0);
+    cpu.push((c.user + c.system) * 1000);
     const want = full ? reference.full : reference.viterbi;
     for (let k = 0; k < runs.length && check === 'same'; k++) {
       const d = differs(got[k], want[k], full);
@@ -93,6 +98,7 @@ for (const [name, full, pass] of rows) {
     }
   }
   times.sort((a, b) => a - b);
+  cpu.sort((a, b) => a - b);
   const ns = (t: number): string => (t / stepLinks).toFixed(2);
-  console.log([name, ns(times[0]), ns(times[Math.floor(times.length / 2)]), check].join('\t'));
+  console.log([name, ns(times[0]), ns(times[Math.floor(times.length / 2)]), ns(cpu[0]), ns(cpu[Math.floor(cpu.length / 2)]), check].join('\t'));
 }
