@@ -6,11 +6,17 @@ import type { DecodeLaneKernels, LogLanes } from '../kernels/decode-lane-kernels
 import { JsDecodeLanes } from '../kernels/js-decode-lanes.js';
 import { WasmDecodeLanes } from '../kernels/wasm-decode-lanes.js';
 import type { LogChain } from './log-chain.js';
+import { decodeWith } from './decode-with.js';
+import { plainTransitions } from './plain-transitions.js';
+import { traceViterbi } from './trace-viterbi.js';
 import { newPositionSteps, type DecodedRun, type DecodeOptions } from './decode-run.js';
 
 const DEFAULT_PLAIN_LIMIT_BYTES = 64 * 1024 * 1024;
 
-/** Which lane kernels `decodeLanes` runs: WebAssembly where it can (the default), or JavaScript only. */
+/**
+ * Which kernels `decodeLanes` runs: the WebAssembly lanes where it can (the default; where it cannot, each
+ * run through `decodeRun`'s path), or with `useWasm: false` the JavaScript lanes (the reference).
+ */
 export interface LaneDecodeOptions extends DecodeOptions {
   /** @default true */
   useWasm?: boolean;
@@ -25,9 +31,13 @@ export interface LaneDecodeOptions extends DecodeOptions {
 let wasm: WasmDecodeLanes | null | undefined;
 let js: JsDecodeLanes | undefined;
 
+/** The lane Viterbi's log-probability tables, with the `logChain` they were made from. */
+export type LaneTables = LogLanes & { log: LogChain };
+
 /** The log-probability tables of the lane Viterbi for a chain and its `logChain`. */
-export function logLanes(chain: SparseChain, log: LogChain): LogLanes {
+export function logLanes(chain: SparseChain, log: LogChain): LaneTables {
   return {
+    log,
     logStart: log.logStart,
     logDwell: Float64Array.from(chain.dwell, Math.log),
     logInProb: Float64Array.from(chain.inProb, Math.log),
@@ -44,7 +54,7 @@ export function logLanes(chain: SparseChain, log: LogChain): LogLanes {
  * little). Long groups are checkpointed as `decodeRun` does, with `plainLimitBytes` applying to the
  * group's tables. `lanes` is `logLanes(chain, log)`.
  */
-export function decodeLanes(chain: SparseChain, lanes: LogLanes, runs: ReadonlyArray<Int32Array>, options: LaneDecodeOptions = {}): DecodedRun[] {
+export function decodeLanes(chain: SparseChain, lanes: LaneTables, runs: ReadonlyArray<Int32Array>, options: LaneDecodeOptions = {}): DecodedRun[] {
   if (runs.length > LANES) throw new RangeError(`decodeLanes: a group must hold at most ${LANES} runs, got ${runs.length}`);
   const limit = options.plainLimitBytes ?? DEFAULT_PLAIN_LIMIT_BYTES;
   const n = chain.nCells;
@@ -76,6 +86,15 @@ export function decodeLanes(chain: SparseChain, lanes: LogLanes, runs: ReadonlyA
   if (options.useWasm !== false) {
     if (wasm === undefined) wasm = WasmDecodeLanes.available() ? WasmDecodeLanes.create() : null;
     if (wasm && wasm.prepare(chain, lanes, group, vSegment, segment, positions)) kernels = wasm;
+  }
+  if (kernels === null && options.useWasm !== false) {
+    // Without WebAssembly (or its memory) the one-run decoder is the faster of the two JavaScript paths
+    // (the JavaScript lanes are the WebAssembly kernels' reference): the same numbers either way.
+    if (!options.viterbiOnly) return runs.map((obs) => decodeWith(plainTransitions(chain, lanes.log, obs), obs, options));
+    runs.forEach((obs, k) => {
+      results[k].pathLogProb = traceViterbi(plainTransitions(chain, lanes.log, obs), obs.length, limit, results[k].path);
+    });
+    return results;
   }
   if (kernels === null) {
     js ??= new JsDecodeLanes();
