@@ -9,9 +9,7 @@ import type { LogChain } from './log-chain.js';
 import { decodeWith } from './decode-with.js';
 import { plainTransitions } from './plain-transitions.js';
 import { traceViterbi } from './trace-viterbi.js';
-import { newPositionSteps, type DecodedRun, type DecodeOptions } from './decode-run.js';
-
-const DEFAULT_PLAIN_LIMIT_BYTES = 64 * 1024 * 1024;
+import { DEFAULT_PLAIN_LIMIT_BYTES, emptyDecodedRun, type DecodedRun, type DecodeOptions } from './decoded-run.js';
 
 /**
  * Which kernels `decodeLanes` runs: the WebAssembly lanes where it can (the default; where it cannot, each
@@ -25,7 +23,15 @@ export interface LaneDecodeOptions extends DecodeOptions {
    * as for an impossible run (NaN / −1) and `logLik` is 0. @default false
    */
   viterbiOnly?: boolean;
+  /**
+   * A group longer than this many steps is decoded one run at a time (the same numbers): side by side,
+   * eight runs' outputs and per-step tables are held at once, about 250 bytes per step of the group.
+   * @default 262144
+   */
+  laneStepsLimit?: number;
 }
+
+const DEFAULT_LANE_STEPS_LIMIT = 1 << 18;
 
 /** One WebAssembly decoder per thread, reused (its memory grows to the largest group seen); null where unavailable. */
 let wasm: WasmDecodeLanes | null | undefined;
@@ -52,30 +58,17 @@ export function logLanes(chain: SparseChain, log: LogChain): LaneTables {
  * (`viterbiLanes`, `forwardLanes`, `posteriorSummaryLanes`, as WebAssembly SIMD where available). Runs
  * may differ in length (the group is as long as its longest run; group runs of similar length to waste
  * little). Long groups are checkpointed as `decodeRun` does, with `plainLimitBytes` applying to the
- * group's tables. `lanes` is `logLanes(chain, log)`.
+ * group's tables. A group of one run, or longer than `laneStepsLimit`, and every group where the
+ * WebAssembly kernels or their memory are missing, is decoded one run at a time (`decodeRun`'s path,
+ * the faster one there). `lanes` is `logLanes(chain, log)`.
  */
 export function decodeLanes(chain: SparseChain, lanes: LaneTables, runs: ReadonlyArray<Int32Array>, options: LaneDecodeOptions = {}): DecodedRun[] {
   if (runs.length > LANES) throw new RangeError(`decodeLanes: a group must hold at most ${LANES} runs, got ${runs.length}`);
   const limit = options.plainLimitBytes ?? DEFAULT_PLAIN_LIMIT_BYTES;
   const n = chain.nCells;
   const positions = options.positions ?? null;
-  const results: DecodedRun[] = runs.map((obs) => {
-    const T = obs.length;
-    return {
-      logLik: 0,
-      path: new Int32Array(T),
-      pathLogProb: 0,
-      pathP: new Float64Array(T).fill(NaN),
-      likelyCell: new Int32Array(T).fill(-1),
-      likelyP: new Float64Array(T).fill(NaN),
-      entropyBits: new Float64Array(T).fill(NaN),
-      surpriseBits: new Float64Array(T).fill(NaN),
-      positions: positions ? newPositionSteps(T) : null,
-    };
-  });
   const group = fillLaneGroup(runs, n, chain.nReadings);
   const nSteps = group.nSteps;
-  if (nSteps === 0) return results;
   const lens = group.laneSteps;
   const row = LANES * n;
   const pointerBytes = n <= 256 ? 1 : n <= 65536 ? 2 : 4;
@@ -83,13 +76,18 @@ export function decodeLanes(chain: SparseChain, lanes: LaneTables, runs: Readonl
   const segment = options.viterbiOnly ? 1 : segmentSteps(nSteps, 8 * row, limit);
 
   let kernels: DecodeLaneKernels | null = null;
-  if (options.useWasm !== false) {
+  // A lone run costs the same work in lanes as eight (the idle lanes compute too): alone it goes faster.
+  const alone = options.useWasm !== false && (runs.filter((obs) => obs.length > 0).length < 2 || nSteps > (options.laneStepsLimit ?? DEFAULT_LANE_STEPS_LIMIT));
+  if (options.useWasm !== false && !alone) {
     if (wasm === undefined) wasm = WasmDecodeLanes.available() ? WasmDecodeLanes.create() : null;
     if (wasm && wasm.prepare(chain, lanes, group, vSegment, segment, positions)) kernels = wasm;
   }
+  const results: DecodedRun[] = runs.map((obs) => emptyDecodedRun(obs.length, positions !== null));
+  if (nSteps === 0) return results;
   if (kernels === null && options.useWasm !== false) {
     // Without WebAssembly (or its memory) the one-run decoder is the faster of the two JavaScript paths
-    // (the JavaScript lanes are the WebAssembly kernels' reference): the same numbers either way.
+    // (the JavaScript lanes are the WebAssembly kernels' reference), and a lone or very long run goes
+    // alone: the same numbers either way.
     if (!options.viterbiOnly) return runs.map((obs) => decodeWith(plainTransitions(chain, lanes.log, obs), obs, options));
     runs.forEach((obs, k) => {
       results[k].pathLogProb = traceViterbi(plainTransitions(chain, lanes.log, obs), obs.length, limit, results[k].path);
