@@ -1,11 +1,10 @@
 import { LANES, type SparseChain } from '../kernels/sparse-chain.js';
 import { fillLaneGroup } from '../kernels/fill-lane-group.js';
 import { segmentSteps } from '../kernels/segment-steps.js';
-import { linkSplit } from '../kernels/viterbi-lanes.js';
-import type { DecodeLaneKernels, LogLanes } from '../kernels/decode-lane-kernels.js';
+import type { DecodeLaneKernels } from '../kernels/decode-lane-kernels.js';
 import { JsDecodeLanes } from '../kernels/js-decode-lanes.js';
 import { WasmDecodeLanes } from '../kernels/wasm-decode-lanes.js';
-import type { LogChain } from './log-chain.js';
+import type { LaneTables } from './log-lanes.js';
 import { decodeWith } from './decode-with.js';
 import { plainTransitions } from './plain-transitions.js';
 import { traceViterbi } from './trace-viterbi.js';
@@ -36,21 +35,6 @@ const DEFAULT_LANE_STEPS_LIMIT = 1 << 18;
 /** One WebAssembly decoder per thread, reused (its memory grows to the largest group seen); null where unavailable. */
 let wasm: WasmDecodeLanes | null | undefined;
 let js: JsDecodeLanes | undefined;
-
-/** The lane Viterbi's log-probability tables, with the `logChain` they were made from. */
-export type LaneTables = LogLanes & { log: LogChain };
-
-/** The log-probability tables of the lane Viterbi for a chain and its `logChain`. */
-export function logLanes(chain: SparseChain, log: LogChain): LaneTables {
-  return {
-    log,
-    logStart: log.logStart,
-    logDwell: Float64Array.from(chain.dwell, Math.log),
-    logInProb: Float64Array.from(chain.inProb, Math.log),
-    logEmitT: log.logEmitT,
-    inSplit: linkSplit(chain.nCells, chain.inPtr, chain.inIdx),
-  };
-}
 
 /**
  * Decodes up to eight runs side by side (one lane group): for each, exactly what `decodeRun` gives for

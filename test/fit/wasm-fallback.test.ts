@@ -14,7 +14,8 @@ import { wasmMemoryRefused } from '../../src/kernels/wasm-memory.js';
 import { logChain } from '../../src/decode/log-chain.js';
 import { viterbiPath } from '../../src/decode/viterbi-path.js';
 import { decodeRun } from '../../src/decode/decode-run.js';
-import { decodeLanes, logLanes } from '../../src/decode/decode-lanes.js';
+import { decodeLanes } from '../../src/decode/decode-lanes.js';
+import { logLanes } from '../../src/decode/log-lanes.js';
 import { positionLayout } from '../../src/decode/position-layout.js';
 import { gridFloor } from '../helpers/grid-floor.js';
 
