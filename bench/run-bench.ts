@@ -5,8 +5,9 @@
  *     npm run bench                                    # all sizes, both peers
  *     npm run build && node dist/bench/run-bench.js --sizes small,medium [--seed 1] [--peers none]
  *
- * Times, per size: scoring every run, the Viterbi path of every run, decoding every run (Viterbi and
- * posteriors), one and twenty Baum-Welch iterations as `fit` runs them (tied transitions, survey prior
+ * Times, per size: scoring every run, the Viterbi path of every run (one run at a time, and in lane
+ * groups of 8 as `decode` runs it), decoding every run (Viterbi and posteriors; and with every annotated
+ * column, one run at a time and in lanes), one and twenty Baum-Welch iterations as `fit` runs them (tied transitions, survey prior
  * of strength 10), and one and twenty iterations of plain Baum-Welch (learned transitions, no prior: the
  * peers' work); then the same model and runs through GHMM and pomegranate, checking that all three agree on
  * the total log-likelihood. Every figure is a measured wall-clock time on this machine, in one thread.
@@ -19,6 +20,10 @@ import { chainFromModel } from '../src/model/chain-from-model.js';
 import { decodeRun } from '../src/decode/decode-run.js';
 import { viterbiPath } from '../src/decode/viterbi-path.js';
 import { logChain } from '../src/decode/log-chain.js';
+import { decodeLanes } from '../src/decode/decode-lanes.js';
+import { logLanes } from '../src/decode/log-lanes.js';
+import { positionLayout } from '../src/decode/position-layout.js';
+import type { DecodedRun } from '../src/decode/decode-run.js';
 import { LocalEngine } from '../src/fit/local-engine.js';
 import { packRuns, type PackedRuns } from '../src/fit/packed-runs.js';
 import { reduceBlocks } from '../src/fit/reduce-blocks.js';
@@ -172,6 +177,38 @@ function decodeAll(model: HmmModel, runs: ReadonlyArray<RunReadings>, truePaths:
   return hits / steps;
 }
 
+/** Σ log P(Viterbi path, readings) over all runs, in lane groups of 8 (`decodeLanes`, Viterbi only), as `decode` groups them. */
+function viterbiLanesAll(model: HmmModel, runs: ReadonlyArray<RunReadings>): number {
+  const chain = chainFromModel(model);
+  const lanes = logLanes(chain, logChain(chain));
+  let total = 0;
+  for (let g = 0; g < runs.length; g += BLOCK_SIZE) {
+    for (const d of decodeLanes(chain, lanes, runs.slice(g, g + BLOCK_SIZE).map((r) => r.obs), { viterbiOnly: true })) total += d.pathLogProb;
+  }
+  return total;
+}
+
+/**
+ * Decodes all runs with every annotated column (Viterbi, posteriors, entropy, surprise, area and position
+ * summaries), one run at a time (`decodeRun`) or in lane groups of 8 (`decodeLanes`, as `decode` does);
+ * returns Σ entropy over all steps (the same, bit for bit, both ways).
+ */
+function decodeFullAll(model: HmmModel, runs: ReadonlyArray<RunReadings>, lanes: boolean): number {
+  const chain = chainFromModel(model);
+  const log = logChain(chain);
+  const positions = positionLayout(model).groups;
+  let total = 0;
+  const add = (d: DecodedRun): void => {
+    for (let t = 0; t < d.entropyBits.length; t++) total += d.entropyBits[t];
+  };
+  if (!lanes) for (const run of runs) add(decodeRun(chain, log, run.obs, { positions }));
+  else {
+    const tables = logLanes(chain, log);
+    for (let g = 0; g < runs.length; g += BLOCK_SIZE) decodeLanes(chain, tables, runs.slice(g, g + BLOCK_SIZE).map((r) => r.obs), { positions }).forEach(add);
+  }
+  return total;
+}
+
 /**
  * `iterations` Baum-Welch iterations the way `fit` does them in one thread (blocks of 8 runs through
  * `LocalEngine`, reduced in block order, then `maximizeModel`); returns the log-likelihood of the model
@@ -206,7 +243,10 @@ async function warmUp(seed: number): Promise<void> {
   const { start, prior } = fitSetup(s);
   await scoreAll(start, packed, blocks);
   viterbiAll(start, runs);
+  viterbiLanesAll(start, runs);
   decodeAll(start, runs, paths);
+  decodeFullAll(start, runs, false);
+  decodeFullAll(start, runs, true);
   await baumWelch(start, packed, blocks, { mode: 'tied', priorStrength: PRIOR_STRENGTH, prior }, 2);
   await baumWelch(start, packed, blocks, { mode: 'learned', priorStrength: 0 }, 2);
 }
@@ -231,8 +271,14 @@ async function benchSize(size: ScenarioSize, o: Options): Promise<{ rows: Row[];
   add('score (forward)', score, 1, 'score', `loglik/reading ${(score.value / nReadings).toFixed(6)}`);
   const viterbi = await timed(() => viterbiAll(start, s.runs));
   add('Viterbi', viterbi, 1, 'viterbi', `path log P ${viterbi.value.toFixed(3)}`);
+  const viterbiLanes = await timed(() => viterbiLanesAll(start, s.runs));
+  add('Viterbi (lanes of 8)', viterbiLanes, 1, 'viterbi', `path log P ${viterbiLanes.value.toFixed(3)}${viterbiLanes.value === viterbi.value ? ' (same)' : ' DIFFERS'}`);
   const decode = await timed(() => decodeAll(start, s.runs, s.truePaths));
   add('decode (Viterbi+posteriors)', decode, 1, null, `path = true cell ${(100 * decode.value).toFixed(1)}%`);
+  const full = await timed(() => decodeFullAll(start, s.runs, false));
+  add('decode, all columns (one run at a time)', full, 1, null, `sum entropy ${full.value.toFixed(3)} bits`);
+  const fullLanes = await timed(() => decodeFullAll(start, s.runs, true));
+  add('decode, all columns (lanes of 8)', fullLanes, 1, null, `sum entropy ${fullLanes.value.toFixed(3)} bits${fullLanes.value === full.value ? ' (same)' : ' DIFFERS'}`);
   const tied = { mode: 'tied' as const, priorStrength: PRIOR_STRENGTH, prior };
   const em1 = await timed(() => baumWelch(start, packed, blocks, tied, 1));
   add('Baum-Welch x1 (tied, prior)', em1, 1, 'baum-welch', `loglik/reading ${(em1.value / nReadings).toFixed(4)} (start)`);

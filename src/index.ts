@@ -32,6 +32,9 @@ export { predictiveCalibration, type PredictiveCalibration, type ReliabilityBin 
 export { autoCandidates, shareRestarts } from './fit/auto-candidates.js';
 
 export { decodeRun, type DecodedRun, type DecodeOptions } from './decode/decode-run.js';
+// Eight runs decoded side by side, the same numbers as decodeRun (DEVELOPERS.md, "Decoding in lanes").
+export { decodeLanes, type LaneDecodeOptions } from './decode/decode-lanes.js';
+export { logLanes, type LaneTables } from './decode/log-lanes.js';
 export { positionLayout, type PositionLayout } from './decode/position-layout.js';
 // Wheel odometry (DEVELOPERS.md, "Movement"): a table's odometry columns, their bins, decoding with them.
 export { runMovement, type RunOdometry, type TableMovement } from './io/run-movement.js';

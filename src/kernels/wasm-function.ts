@@ -119,6 +119,36 @@ export class WasmFunction {
   /** bitselect(a, b, mask): the bits of a where mask is 1, of b where it is 0 (a, b, mask pushed in that order). */
   v128Bitselect(): this { return this.simd(0x52); }
 
+  // More scalar and vector instructions, for the decode kernels (Viterbi maxima, log2, position sums).
+  f64Sub(): this { this.code.push(0xa1); return this; }
+  i32ShrU(): this { this.code.push(0x76); return this; }
+  f64Sqrt(): this { this.code.push(0x9f); return this; }
+  f64Lt(): this { this.code.push(0x63); return this; }
+  i32Load8U(offset = 0): this { this.code.push(0x2d, 0, ...uleb(offset)); return this; }
+  /** v128.const of two float64 values (IEEE bytes, little-endian). */
+  v128ConstF64(a: number, b: number = a): this {
+    return this.simd(0x0c, ...new Uint8Array(new Float64Array([a, b]).buffer));
+  }
+  /** v128.const of two 64-bit integers given as [high 32 bits, low 32 bits] (the same in both lanes). */
+  v128ConstI64(high: number, low: number): this {
+    const words = new Uint32Array([low >>> 0, high >>> 0, low >>> 0, high >>> 0]);
+    return this.simd(0x0c, ...new Uint8Array(words.buffer));
+  }
+  i32x4Splat(): this { return this.simd(0x11); }
+  i32x4ExtractLane(lane: 0 | 1 | 2 | 3): this { return this.simd(0x1b, lane); }
+  f64x2Div(): this { return this.simd(0xf3); }
+  /** pmax(a, b) = a < b ? b : a, lane by lane. */
+  f64x2Pmax(): this { return this.simd(0xf7); }
+  f64x2Lt(): this { return this.simd(0x49); }
+  f64x2Gt(): this { return this.simd(0x4a); }
+  /** v128.any_true: i32 1 when any bit is set. */
+  v128AnyTrue(): this { return this.simd(0x53); }
+  v128Or(): this { return this.simd(0x50); }
+  v128Xor(): this { return this.simd(0x51); }
+  i64x2Shl(): this { return this.simd(0xcb); }
+  i64x2ShrU(): this { return this.simd(0xcd); }
+  i64x2Add(): this { return this.simd(0xce); }
+
   // Control.
   /** `block … end` with a body; inside, `br(0)` leaves the block. */
   block(body: () => void): this {

@@ -5,7 +5,10 @@ import type { MoveSteps } from '../kernels/move-chain.js';
 import type { HmmModel } from '../model/hmm-model.js';
 import { chainFromModel } from '../model/chain-from-model.js';
 import { logChain } from '../decode/log-chain.js';
-import { decodeRun } from '../decode/decode-run.js';
+import type { DecodedRun } from '../decode/decode-run.js';
+import { decodeLanes } from '../decode/decode-lanes.js';
+import { logLanes } from '../decode/log-lanes.js';
+import { LANES } from '../kernels/sparse-chain.js';
 import { summarizeRun, flagText, FLAG_DROPOUT, FLAG_IMPOSSIBLE, FLAG_LOW_CONFIDENCE, FLAG_SURPRISING, type RunSummary } from '../decode/summarize-run.js';
 import { Bool } from 'apache-arrow';
 
@@ -66,37 +69,64 @@ export function decodeRuns(
   const spread = new Float64Array(nRows).fill(NaN);
   const summaries: DecodedTables['summaries'] = [];
   const impossibleRuns: string[] = [];
+  // Every run, with its first row in the stacked tables and its odometry (when the model uses it).
+  const entries: Array<{ run: RunsTable['runs'][number]; base: number; moves: MoveSteps | undefined }> = [];
   let base = 0;
   for (const [ti, table] of tables.entries()) {
-    for (const [ri, run] of table.runs.entries()) {
-      const moves = chain.move ? movesOf?.(ti, ri) : undefined;
-      const dec = moves ? decodeMoveRun(chain, log, run.obs, moves, { positions: layout.groups }) : decodeRun(chain, log, run.obs, { positions: layout.groups });
-      const stepFlags = new Uint8Array(run.obs.length);
-      const summary = summarizeRun(run.obs, dec, th, stepFlags);
-      summaries.push({ run: run.id, split: splitOf(run.id), ...summary, ...summarizeZones(run.rows, dec, th, layout.hasZones) });
-      const pos = dec.positions!;
-      if (dec.logLik === -Infinity) impossibleRuns.push(run.id);
-      for (let t = 0; t < run.obs.length; t++) {
-        const row = run.rows[t];
-        if (row < 0) continue;
-        const g = base + row;
-        pathCell[g] = dec.path[t];
-        pathP[g] = unitInterval(dec.pathP[t]);
-        likelyCell[g] = dec.likelyCell[t];
-        likelyP[g] = unitInterval(dec.likelyP[t]);
-        entropy[g] = nonNegative(dec.entropyBits[t]);
-        surprise[g] = nonNegative(dec.surpriseBits[t]);
-        flags[g] = stepFlags[t];
-        likelyZone[g] = pos.likelyZone[t];
-        zoneP[g] = unitInterval(pos.zoneP[t]);
-        meanLevel[g] = pos.meanLevel[t];
-        meanX[g] = pos.meanX[t];
-        meanY[g] = pos.meanY[t];
-        spread[g] = nonNegative(pos.spreadM[t]);
-      }
-    }
+    for (const [ri, run] of table.runs.entries()) entries.push({ run, base, moves: chain.move ? movesOf?.(ti, ri) : undefined });
     base += table.nRows;
   }
+  const rowSummaries: Array<DecodedTables['summaries'][number]> = new Array(entries.length);
+  const impossible = new Uint8Array(entries.length);
+  const take = (index: number, dec: DecodedRun): void => {
+    const { run, base } = entries[index];
+    const stepFlags = new Uint8Array(run.obs.length);
+    const summary = summarizeRun(run.obs, dec, th, stepFlags);
+    rowSummaries[index] = { run: run.id, split: splitOf(run.id), ...summary, ...summarizeZones(run.rows, dec, th, layout.hasZones) };
+    const pos = dec.positions!;
+    if (dec.logLik === -Infinity) impossible[index] = 1;
+    for (let t = 0; t < run.obs.length; t++) {
+      const row = run.rows[t];
+      if (row < 0) continue;
+      const g = base + row;
+      pathCell[g] = dec.path[t];
+      pathP[g] = unitInterval(dec.pathP[t]);
+      likelyCell[g] = dec.likelyCell[t];
+      likelyP[g] = unitInterval(dec.likelyP[t]);
+      entropy[g] = nonNegative(dec.entropyBits[t]);
+      surprise[g] = nonNegative(dec.surpriseBits[t]);
+      flags[g] = stepFlags[t];
+      likelyZone[g] = pos.likelyZone[t];
+      zoneP[g] = unitInterval(pos.zoneP[t]);
+      meanLevel[g] = pos.meanLevel[t];
+      meanX[g] = pos.meanX[t];
+      meanY[g] = pos.meanY[t];
+      spread[g] = nonNegative(pos.spreadM[t]);
+    }
+  };
+  // Runs without odometry in lane groups of eight of similar length (the same numbers as one at a time);
+  // runs with odometry one at a time.
+  const plain: number[] = [];
+  entries.forEach((e, index) => {
+    if (e.moves) take(index, decodeMoveRun(chain, log, e.run.obs, e.moves, { positions: layout.groups }));
+    else plain.push(index);
+  });
+  plain.sort((a, b) => entries[a].run.obs.length - entries[b].run.obs.length || a - b);
+  const lanes = logLanes(chain, log);
+  for (let g = 0; g < plain.length; g += LANES) {
+    const members = plain.slice(g, g + LANES);
+    const decoded = decodeLanes(
+      chain,
+      lanes,
+      members.map((index) => entries[index].run.obs),
+      { positions: layout.groups },
+    );
+    members.forEach((index, k) => take(index, decoded[k]));
+  }
+  rowSummaries.forEach((s, index) => {
+    summaries.push(s);
+    if (impossible[index]) impossibleRuns.push(s.run);
+  });
   const ids = model.cells.map((c) => c.id);
   const num = (a: Float64Array) => (row: number) => (Number.isNaN(a[row]) ? null : a[row]);
   const cell = (a: Int32Array) => (row: number) => (a[row] < 0 ? null : ids[a[row]]);

@@ -13,6 +13,10 @@ import { WasmLaneKernels } from '../../src/kernels/wasm-lane-kernels.js';
 import { wasmMemoryRefused } from '../../src/kernels/wasm-memory.js';
 import { logChain } from '../../src/decode/log-chain.js';
 import { viterbiPath } from '../../src/decode/viterbi-path.js';
+import { decodeRun } from '../../src/decode/decode-run.js';
+import { decodeLanes } from '../../src/decode/decode-lanes.js';
+import { logLanes } from '../../src/decode/log-lanes.js';
+import { positionLayout } from '../../src/decode/position-layout.js';
 import { gridFloor } from '../helpers/grid-floor.js';
 import { sampleOdometry } from '../../src/model/sample-odometry.js';
 import { moveStepsFromOdometry } from '../../src/model/move-steps-from-odometry.js';
@@ -139,5 +143,24 @@ describe('the JavaScript kernels when WebAssembly memory cannot be had', () => {
     const logP = viterbiPath(chain, log, long, 1 << 26, path);
     expect(logP).toBe(wantLogP);
     expect(Array.from(path)).toEqual(Array.from(want));
+  });
+
+  it('decodeLanes decodes each run alone when its WebAssembly memory cannot grow, with the same numbers', () => {
+    const chain = chainFromModel(truth);
+    const log = logChain(chain);
+    const options = { positions: positionLayout(truth).groups };
+    const group = runs.slice(0, 8).map((r) => r.obs);
+    decodeLanes(chain, logLanes(chain, log), group.map((obs) => obs.subarray(0, 10)), options); // sized for short runs
+    const long = [...group.slice(0, 7), sampleRun(truth, 6000, new SeededRandom(4), 0.05).obs];
+    const want = long.map((obs) => decodeRun(chain, log, obs, options));
+    refuseGrowth();
+    const got = decodeLanes(chain, logLanes(chain, log), long, options);
+    expect(wasmMemoryRefused()).toBe(true);
+    got.forEach((d, k) => {
+      expect(d.logLik).toBe(want[k].logLik);
+      expect(Array.from(d.path)).toEqual(Array.from(want[k].path));
+      expect(Array.from(d.entropyBits)).toEqual(Array.from(want[k].entropyBits));
+      expect(Array.from(d.positions!.meanX)).toEqual(Array.from(want[k].positions!.meanX));
+    });
   });
 });
