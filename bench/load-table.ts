@@ -109,7 +109,7 @@ if (process.argv[2] === '--read') {
     console.log('file                 MB   read s    rows/s   ns/row    cpu s   peak RSS MB   heap after MB');
     const self = fileURLToPath(import.meta.url);
     const best: string[] = [];
-    for (const file of [csv, arrow].filter((_, i) => formats.includes(['csv', 'arrow'][i] as string))) {
+    for (const file of [csv, arrow].filter((_, i) => formats.includes((['csv', 'arrow'] as const)[i]))) {
       let fastest = Infinity;
       for (let k = 0; k < repeats; k++) {
         t0 = process.hrtime.bigint();
