@@ -2,14 +2,15 @@
  * Reading a very large runs table (issue 4: "a 10⁷-row runs table, CSV and Arrow, loads without
  * building per-row JavaScript objects"):
  *
- *     npm run build && node dist/bench/load-table.js [rows] [repeats]
+ *     npm run build && node dist/bench/load-table.js [rows] [repeats] [formats]
  *
  * Writes a runs table of `rows` rows (default 10 000 000: 5 000 runs × 2 000 steps, six invented
  * surfaces, 2 % empty readings) to a temporary directory as CSV and as an Arrow IPC file (the Arrow
- * file as `underfoot simulate` writes it: run and reading as Utf8, step as Int32), then reads each file
- * `repeats` times (default 1) with `readRuns`, each time in a fresh Node process, and prints the wall
- * seconds of the read, ns per row, the process's peak resident set size and its heap after the read.
- * The temporary directory is removed at the end.
+ * file as `underfoot simulate` writes it: run and reading as Utf8, step as Int32; `formats` picks them,
+ * default `csv,arrow`), then reads each file `repeats` times (default 3) with `readRuns`, each time in a
+ * fresh Node process, and prints the wall seconds of the read (file bytes to runs), rows per second, ns
+ * per row, the process's CPU seconds over the read, its peak resident set size and its heap after the
+ * read; then the best (fastest) read of each file. The temporary directory is removed at the end.
  */
 import { spawnSync } from 'node:child_process';
 import { createWriteStream, mkdtempSync, rmSync, statSync, writeFileSync } from 'node:fs';
@@ -75,12 +76,14 @@ function writeArrow(file: string, nRows: number): void {
 /** In a child process: reads one file, prints one JSON line. */
 async function readOne(file: string): Promise<void> {
   const t0 = process.hrtime.bigint();
+  const cpu0 = process.cpuUsage();
   const table = await readRuns(file, { surfaces: SURFACES });
   const seconds = Number(process.hrtime.bigint() - t0) / 1e9;
+  const cpu = process.cpuUsage(cpu0);
   let steps = 0;
   for (const run of table.runs) steps += run.obs.length;
   const heapMB = process.memoryUsage().heapUsed / 2 ** 20;
-  const result = { seconds, rows: table.nRows, runs: table.runs.length, steps, peakRssMB: process.resourceUsage().maxRSS / 1024, heapMB };
+  const result = { seconds, cpuSeconds: (cpu.user + cpu.system) / 1e6, rows: table.nRows, runs: table.runs.length, steps, peakRssMB: process.resourceUsage().maxRSS / 1024, heapMB };
   process.stdout.write(`${JSON.stringify(result)}\n`);
 }
 
@@ -88,9 +91,10 @@ if (process.argv[2] === '--read') {
   await readOne(process.argv[3]);
 } else {
   const nRows = Number(process.argv[2] ?? 10_000_000);
-  const repeats = Number(process.argv[3] ?? 1);
-  if (!(Number.isInteger(nRows) && nRows > 0 && Number.isInteger(repeats) && repeats > 0)) {
-    process.stderr.write(`load-table: usage: node dist/bench/load-table.js [rows ≥ 1] [repeats ≥ 1], got ${process.argv.slice(2).join(' ')}\n`);
+  const repeats = Number(process.argv[3] ?? 3);
+  const formats: string[] = (process.argv[4] ?? 'csv,arrow').split(',');
+  if (!(Number.isInteger(nRows) && nRows > 0 && Number.isInteger(repeats) && repeats > 0 && formats.length > 0 && formats.every((f) => f === 'csv' || f === 'arrow'))) {
+    process.stderr.write(`load-table: usage: node dist/bench/load-table.js [rows ≥ 1] [repeats ≥ 1] [csv,arrow], got ${process.argv.slice(2).join(' ')}\n`);
     process.exit(2);
   }
   const dir = mkdtempSync(path.join(os.tmpdir(), 'underfoot-load-table-'));
@@ -98,25 +102,30 @@ if (process.argv[2] === '--read') {
     const csv = path.join(dir, 'runs.csv');
     const arrow = path.join(dir, 'runs.arrow');
     let t0 = process.hrtime.bigint();
-    await writeCsv(csv, nRows);
-    writeArrow(arrow, nRows);
+    if (formats.includes('csv')) await writeCsv(csv, nRows);
+    if (formats.includes('arrow')) writeArrow(arrow, nRows);
     const made = Number(process.hrtime.bigint() - t0) / 1e9;
     console.log(`runs table of ${nRows} rows (${Math.ceil(nRows / STEPS_PER_RUN)} runs × ≤ ${STEPS_PER_RUN} steps) written in ${made.toFixed(1)} s; Node ${process.version}, ${os.availableParallelism()} cores, load average ${os.loadavg().map((x) => x.toFixed(2)).join(' ')}`);
-    console.log('file                 MB   read s   ns/row   peak RSS MB   heap after MB');
+    console.log('file                 MB   read s    rows/s   ns/row    cpu s   peak RSS MB   heap after MB');
     const self = fileURLToPath(import.meta.url);
-    for (const file of [csv, arrow]) {
+    const best: string[] = [];
+    for (const file of [csv, arrow].filter((_, i) => formats.includes((['csv', 'arrow'] as const)[i]))) {
+      let fastest = Infinity;
       for (let k = 0; k < repeats; k++) {
         t0 = process.hrtime.bigint();
         const res = spawnSync(process.execPath, [self, '--read', file], { encoding: 'utf8', maxBuffer: 1 << 20 });
         if (res.status !== 0) throw new Error(`load-table: reading ${path.basename(file)} failed: ${res.stderr.trim().split('\n').slice(-3).join(' / ')}`);
-        const r = JSON.parse(res.stdout.trim().split('\n').pop()!) as { seconds: number; rows: number; steps: number; peakRssMB: number; heapMB: number };
+        const r = JSON.parse(res.stdout.trim().split('\n').pop()!) as { seconds: number; cpuSeconds: number; rows: number; steps: number; peakRssMB: number; heapMB: number };
         if (r.rows !== nRows || r.steps !== nRows) throw new Error(`load-table: ${path.basename(file)}: read ${r.rows} rows and ${r.steps} steps, expected ${nRows}`);
         const mb = statSync(file).size / 2 ** 20;
         console.log(
-          `${path.basename(file).padEnd(16)} ${mb.toFixed(0).padStart(6)} ${r.seconds.toFixed(2).padStart(8)} ${((r.seconds * 1e9) / nRows).toFixed(0).padStart(8)} ${r.peakRssMB.toFixed(0).padStart(13)} ${r.heapMB.toFixed(0).padStart(15)}`,
+          `${path.basename(file).padEnd(16)} ${mb.toFixed(0).padStart(6)} ${r.seconds.toFixed(2).padStart(8)} ${(nRows / r.seconds).toExponential(2).padStart(9)} ${((r.seconds * 1e9) / nRows).toFixed(0).padStart(8)} ${r.cpuSeconds.toFixed(2).padStart(8)} ${r.peakRssMB.toFixed(0).padStart(13)} ${r.heapMB.toFixed(0).padStart(15)}`,
         );
+        fastest = Math.min(fastest, r.seconds);
       }
+      best.push(`${path.basename(file)} ${fastest.toFixed(2)} s (${(nRows / fastest).toExponential(2)} rows/s)`);
     }
+    console.log(`best of ${repeats}: ${best.join('; ')}`);
   } finally {
     rmSync(dir, { recursive: true, force: true });
   }

@@ -1,7 +1,8 @@
 import type { Command } from 'commander';
 import { decodeFromFiles, type DecodeConfig, type DecodeOutcome } from '../pipeline/decode-from-files.js';
 import { DEFAULT_THRESHOLDS } from '../pipeline/cli-surface.js';
-import { addKeyColumnOptions, addOutputOptions, keyColumnsFrom, numberOption } from './common-options.js';
+import { resolveDecodeOptions } from '../pipeline/resolve-decode-options.js';
+import { addKeyColumnOptions, addOutputOptions, keyColumnsFrom } from './common-options.js';
 import type { CliIo } from './cli-io.js';
 import { SAFETY_NOTE } from './safety-note.js';
 
@@ -43,10 +44,7 @@ export function decodeConfig(opts: Record<string, unknown>): DecodeConfig {
     runs: opts.runs as string[],
     out: String(opts.out),
     summary: opts.summary ? String(opts.summary) : null,
-    thresholds: {
-      lowConfidence: numberOption(opts.lowConfidence, 'decode', '--low-confidence', (x) => x >= 0 && x <= 1, 'a probability in [0, 1]'),
-      surprisingBits: numberOption(opts.surprisingBits, 'decode', '--surprising-bits', (x) => x >= 0, 'a number of bits ≥ 0'),
-    },
+    thresholds: resolveDecodeOptions({ lowConfidence: opts.lowConfidence, surprisingBits: opts.surprisingBits }, 'decode'),
     keys: keyColumnsFrom(opts, 'decode'),
   };
 }

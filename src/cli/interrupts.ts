@@ -1,5 +1,5 @@
 import { INTERRUPT_EXIT_CODES, type InterruptSignal } from '../errors.js';
-import { removeTemporaryFiles } from '../pipeline/cli-surface.js';
+import { removeTemporaryFiles } from '../pipeline/temporary-files.js';
 import type { CliIo } from './cli-io.js';
 
 /** The stop request of the operation that can stop cleanly (a fit), if one is running. */

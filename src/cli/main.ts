@@ -2,13 +2,22 @@ import { Command, CommanderError } from 'commander';
 import { InputError, WorkError, InterruptedError, isOutOfMemory, outOfMemoryError } from '../errors.js';
 import { TOOL_VERSION } from '../version.js';
 import { processIo, type CliIo } from './cli-io.js';
-import { registerCheck } from './check-command.js';
-import { registerSimulate } from './simulate-command.js';
-import { registerFit } from './fit-command.js';
-import { registerDecode } from './decode-command.js';
-import { registerRun } from './run-command.js';
-import { registerReport } from './report-command.js';
-import { registerCompare } from './compare-command.js';
+
+type Register = (program: Command, io: CliIo) => void;
+
+/**
+ * Each command's module, loaded only when needed (start-up time): a command named on the command line
+ * loads its own module alone; help, a version request or an unknown command load them all.
+ */
+const COMMANDS: Record<string, () => Promise<Register>> = {
+  check: async () => (await import('./check-command.js')).registerCheck,
+  simulate: async () => (await import('./simulate-command.js')).registerSimulate,
+  fit: async () => (await import('./fit-command.js')).registerFit,
+  decode: async () => (await import('./decode-command.js')).registerDecode,
+  run: async () => (await import('./run-command.js')).registerRun,
+  report: async () => (await import('./report-command.js')).registerReport,
+  compare: async () => (await import('./compare-command.js')).registerCompare,
+};
 
 /**
  * Runs the command line and returns the exit code: 0 success, 1 failure while working, 2 bad input or
@@ -37,13 +46,11 @@ export async function main(argv: string[], io: CliIo = processIo): Promise<numbe
     .exitOverride()
     .showHelpAfterError('(add --help for usage)')
     .configureOutput({ writeOut: (s) => io.out(s), writeErr: (s) => io.err(s) });
-  registerCheck(program, commandIo);
-  registerSimulate(program, commandIo);
-  registerFit(program, commandIo);
-  registerDecode(program, commandIo);
-  registerRun(program, commandIo);
-  registerReport(program, commandIo);
-  registerCompare(program, commandIo);
+  // The command is the first word that is not an option (the program itself takes no option values).
+  const named = flags.find((a) => !a.startsWith('-'));
+  const versionOnly = named === undefined && (flags.includes('-V') || flags.includes('--version'));
+  const wanted = named !== undefined && Object.hasOwn(COMMANDS, named) ? [named] : versionOnly ? [] : Object.keys(COMMANDS);
+  for (const register of await Promise.all(wanted.map((name) => COMMANDS[name]()))) register(program, commandIo);
   for (const cmd of program.commands) cmd.exitOverride();
   const debug = argv.includes('--debug');
   try {

@@ -19,7 +19,6 @@ import { checkCheckpoint } from './check-checkpoint.js';
 import { impossibleRunError } from './impossible-run-error.js';
 import type { EStepEngine } from './e-step-engine.js';
 import { LocalEngine } from './local-engine.js';
-import { PoolEngine } from './pool-engine.js';
 import type { FitOptions, FitRecord, LoopRecord } from './fit-record.js';
 import { TOOL_VERSION } from '../version.js';
 import { selectRestart } from './select-restart.js';
@@ -150,7 +149,11 @@ export async function fitModel(
   // One engine serves every candidate of `auto`: per-link counts (the `learned` form) fit every M-step.
   // With odometry the candidates are `fixed` and `tied`, whose totals form serves both.
   const engineMode: TransitionMode = modes.length > 1 ? (useMovement ? 'tied' : 'learned') : modes[0];
-  const engine: EStepEngine = workers > 1 ? new PoolEngine(packed, workers, { mode: engineMode, prune }) : new LocalEngine(packed, { mode: engineMode, prune });
+  // The thread pool (and its package) is loaded only for more than one thread (start-up time).
+  const engine: EStepEngine =
+    workers > 1
+      ? new (await import('./pool-engine.js')).PoolEngine(packed, workers, { mode: engineMode, prune })
+      : new LocalEngine(packed, { mode: engineMode, prune });
   try {
     const plan = restartPlan(modes, o.restarts, o.seed);
     const restarts: LoopRecord[] = [];

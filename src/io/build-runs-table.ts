@@ -148,7 +148,6 @@ export function buildRunsTable(input: KeyedRows, options: ReadRunsOptions): Runs
       codeOfRow[row] = DROPOUT;
       continue;
     }
-    const stepForMessage = timeOfRow ? `time ${describeValue(rawStep)}` : `step ${step}`;
     const label = typeof rawReading === 'string' ? rawReading : String(rawReading);
     let code = codeOf.get(label);
     if (code === undefined) {
@@ -166,11 +165,14 @@ export function buildRunsTable(input: KeyedRows, options: ReadRunsOptions): Runs
     if (code !== undefined) {
       codeOfRow[row] = code;
     } else if (!isWellFormedText(label)) {
+      const stepForMessage = timeOfRow ? `time ${describeValue(rawStep)}` : `step ${step}`;
       throw new InputError(`${source}: reading at run ${quote(runId)} ${stepForMessage} must be well-formed Unicode text, got ${quote(label)} with a lone surrogate`);
     } else if (unknownAsDropout) {
       codeOfRow[row] = UNKNOWN;
       unknownLabels.set(label, (unknownLabels.get(label) ?? 0) + 1);
     } else {
+      // Made only here: a message string per row would cost more than the rest of the row's work.
+      const stepForMessage = timeOfRow ? `time ${describeValue(rawStep)}` : `step ${step}`;
       throw new InputError(
         `${source}: reading at run ${quote(runId)} ${stepForMessage} must be one of the floor's surfaces ` +
           `(${listForMessage(options.surfaces, 8)}), got ${quote(label)}`,

@@ -1,6 +1,5 @@
 import { tableFromIPC, type Vector } from 'apache-arrow';
 import { InputError, quote } from '../errors.js';
-import { decodeUtf8 } from './decode-utf8.js';
 import { parseCsv } from './parse-csv.js';
 import type { TableFormat } from './table-format-of.js';
 
@@ -23,7 +22,7 @@ export interface NamedColumns {
  */
 export function columnsFromBytes(bytes: Uint8Array, format: TableFormat, source: string): NamedColumns {
   if (format === 'csv') {
-    const csv = parseCsv(decodeUtf8(bytes, source), source);
+    const csv = parseCsv(bytes, source);
     return {
       source,
       nRows: csv.nRows,

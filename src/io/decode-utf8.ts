@@ -1,4 +1,10 @@
+import { isUtf8 } from 'node:buffer';
 import { InputError } from '../errors.js';
+
+/** Fails unless `bytes` are strict UTF-8 (no invalid, overlong or surrogate sequences). */
+export function checkUtf8(bytes: Uint8Array, source: string): void {
+  if (!isUtf8(bytes)) throw new InputError(`${source}: file must be UTF-8 text, got bytes that are not valid UTF-8`);
+}
 
 /**
  * Decodes UTF-8 bytes to text, keeping a leading byte-order mark for the parser to drop. Invalid bytes

@@ -9,8 +9,9 @@ export const MAX_JSON_BYTES = 256 * 1024 * 1024;
 export const MAX_TABLE_BYTES = 2 * 1024 * 1024 * 1024;
 
 /**
- * Largest CSV table read: 1 GiB. Its text must fit in one JavaScript string (about 2^29 characters), so
- * a larger CSV could not be parsed anyway; reading stops here rather than at 2 GiB.
+ * Largest CSV table read: 1 GiB. The parser keeps the bytes and locates rows by 32-bit byte offsets,
+ * and a column's values must stay well within what JavaScript strings hold; reading stops here rather
+ * than at 2 GiB.
  */
 export const MAX_CSV_BYTES = 1024 * 1024 * 1024;
 

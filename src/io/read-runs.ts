@@ -1,4 +1,3 @@
-import { decodeUtf8 } from './decode-utf8.js';
 import { runsFromCsv } from './runs-from-csv.js';
 import { MAX_CSV_BYTES, readInputFile } from './read-input-file.js';
 import type { ReadRunsOptions, RunsTable } from './runs-table.js';
@@ -19,13 +18,6 @@ export async function readRuns(path: string, options: ReadRunsOptions): Promise<
     const { runsFromArrow } = await import('./parse-runs.js');
     return runsFromArrow(await readInputFile(path), path, options);
   }
-  return runsFromCsv(await readText(path), path, options);
-}
-
-/**
- * A file's text. The bytes live only inside this function, so once it returns they can be freed while
- * the text is parsed (a large CSV's bytes and text are not both held).
- */
-async function readText(path: string): Promise<string> {
-  return decodeUtf8(await readInputFile(path, MAX_CSV_BYTES), path);
+  // CSV is parsed from its bytes (checked as strict UTF-8): no text copy of the file is made.
+  return runsFromCsv(await readInputFile(path, MAX_CSV_BYTES), path, options);
 }

@@ -9,5 +9,5 @@ export { DEFAULT_REFIT_SEARCH } from '../compare/search-refit.js';
 export { DEFAULT_AMBIGUITY_OPTIONS, type AmbiguityOptions } from '../report/estimate-ambiguity.js';
 export type { FitProgress } from '../fit/fit-model.js';
 export type { ModelFile } from '../io/model-file.js';
-export { removeTemporaryFiles } from '../io/write-atomic.js';
+export { removeTemporaryFiles } from './temporary-files.js';
 export { SAFETY_CAUTION } from './decode-from-files.js';

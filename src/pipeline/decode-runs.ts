@@ -10,7 +10,6 @@ import { decodeLanes } from '../decode/decode-lanes.js';
 import { logLanes } from '../decode/log-lanes.js';
 import { LANES } from '../kernels/sparse-chain.js';
 import { summarizeRun, flagText, FLAG_DROPOUT, FLAG_IMPOSSIBLE, FLAG_LOW_CONFIDENCE, FLAG_SURPRISING, type RunSummary } from '../decode/summarize-run.js';
-import { Bool } from 'apache-arrow';
 
 /** The boolean flag columns of the annotated table and the flag bit each shows (after the position columns). */
 export const FLAG_COLUMNS: Array<[string, number]> = [
@@ -170,7 +169,9 @@ export function decodeRuns(
       { name: 'flag', kind: 'utf8', get: (row) => flagText(flags[row]) },
       ...positionColumns(model, layout, { pathCell, likelyZone, zoneP, meanLevel, meanX, meanY, spread }),
       // Each flag as its own boolean column (the `flag` text kept above), for tools that filter on booleans.
-      ...FLAG_COLUMNS.map(([name, bit]): OutputColumn => ({ name, kind: 'passthrough', arrowType: new Bool(), get: (row) => (flags[row] & bit) !== 0 })),
+      // No `arrowType`: its values are all booleans, so Arrow and Parquet store it as Bool / BOOLEAN, and
+      // naming the type would load Apache Arrow at every start-up.
+      ...FLAG_COLUMNS.map(([name, bit]): OutputColumn => ({ name, kind: 'passthrough', get: (row) => (flags[row] & bit) !== 0 })),
     ],
   };
   const finite = (v: number) => (Number.isFinite(v) ? v : null);

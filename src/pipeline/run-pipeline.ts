@@ -3,7 +3,6 @@ import { readModel } from '../io/read-model.js';
 import { checkReadable } from '../io/check-readable.js';
 import { planOutputs } from '../io/plan-outputs.js';
 import type { FitProgress } from '../fit/fit-model.js';
-import { DEFAULT_THRESHOLDS } from '../decode/decode-thresholds.js';
 import { DEFAULT_KEY_COLUMNS, type KeyColumns } from './key-columns.js';
 import { resolveFitOptions } from './resolve-fit-options.js';
 import { fitFromFiles, type FitOutcome } from './fit-from-files.js';
@@ -11,7 +10,7 @@ import { decodeFromFiles, type DecodeOutcome } from './decode-from-files.js';
 import { reportToFile } from './report-to-file.js';
 import { compareFromFiles, type CompareOutcome, type CompareProgress } from './compare-from-files.js';
 import { resolveCompareOptions } from './resolve-compare-options.js';
-import { InputError } from '../errors.js';
+import { resolveDecodeOptions } from './resolve-decode-options.js';
 import { parsePeriod } from '../io/parse-time.js';
 
 export interface PipelineOutcome {
@@ -48,17 +47,12 @@ export async function runPipeline(
   const compareOpts = p.compare
     ? resolveCompareOptions({ ...p.compare, ...(overrides.workers ? { workers: overrides.workers } : {}) }, p.source, (k) => `"compare.${k}"`)
     : null;
+  // Checked by the same validator as `decode`'s flags, before any file is touched.
+  const thresholds = resolveDecodeOptions({ ...(p.decode ?? {}) }, p.source, (k) => `"decode.${k}"`);
   await checkReadable(p.floor, 'floor file');
   for (const r of p.runs) await checkReadable(r, 'runs table');
   if (p.model) await checkReadable(p.model, 'model file');
   if (fitOpts?.from) await checkReadable(fitOpts.from, 'warm-start model');
-  const thresholds = { ...DEFAULT_THRESHOLDS, ...(p.decode ?? {}) };
-  if (!(thresholds.lowConfidence >= 0 && thresholds.lowConfidence <= 1)) {
-    throw new InputError(`${p.source}: "decode.lowConfidence" must be a probability in [0, 1], got ${thresholds.lowConfidence}`);
-  }
-  if (!(thresholds.surprisingBits >= 0)) {
-    throw new InputError(`${p.source}: "decode.surprisingBits" must be a number of bits ≥ 0, got ${thresholds.surprisingBits}`);
-  }
   // No output may replace an input (the pipeline file itself included) or another output.
   await planOutputs(
     p.source,

@@ -1,4 +1,5 @@
 import { describe, it, expect } from 'vitest';
+import { itSlow } from '../helpers/slow.js';
 import { fSurvival } from '../../src/compare/f-survival.js';
 import { compareCells } from '../../src/compare/compare-cells.js';
 import { drawNullRuns } from '../../src/compare/draw-null-runs.js';
@@ -136,7 +137,7 @@ describe('compareCells with null draws: false discoveries stay near the nominal 
   const trials = 120;
   for (const withOldCounts of [false, true]) {
     const what = withOldCounts ? 'old rows estimated from the old fit’s expected readings' : 'old rows known exactly';
-    it(`${what}: mean FDP ≤ 0.08 at a nominal 0.05 with 6 of 40 cells changed, and every change found`, () => {
+    itSlow(`${what}: mean FDP ≤ 0.08 at a nominal 0.05 with 6 of 40 cells changed, and every change found`, () => {
       let fdp = 0;
       let found = 0;
       for (let t = 0; t < trials; t++) {
@@ -150,7 +151,7 @@ describe('compareCells with null draws: false discoveries stay near the nominal 
       // A change of the cell's surface with ≥ 300 expected readings is found nearly always.
       expect(found / (6 * trials)).toBeGreaterThanOrEqual(0.95);
     });
-    it(`${what}: with nothing changed, some cell is flagged in ≤ 13 % of trials (nominal 5 %)`, () => {
+    itSlow(`${what}: with nothing changed, some cell is flagged in ≤ 13 % of trials (nominal 5 %)`, () => {
       let any = 0;
       for (let t = 0; t < trials; t++) if (trial(fcSeed + 1000 * t + 7, withOldCounts, 0).anyFalse) any++;
       expect(any / trials).toBeLessThanOrEqual(0.13);

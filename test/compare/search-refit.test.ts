@@ -1,4 +1,5 @@
 import { describe, it, expect } from 'vitest';
+import { itSlow } from '../helpers/slow.js';
 import { searchRefit, DEFAULT_REFIT_SEARCH, type RefitSearchOptions } from '../../src/compare/search-refit.js';
 import { packRuns } from '../../src/fit/packed-runs.js';
 import { LocalEngine } from '../../src/fit/local-engine.js';
@@ -21,7 +22,7 @@ describe('searchRefit: the re-fit credits a change to the cell that changed', ()
   // to a look-alike cell nearby (found by trying seeds 1–12; the search got 11 of the 12 right, the
   // plain warm start 9).
   for (const seed of [2, 8]) {
-    it(`seed ${seed}: the plain warm start misses, the search finds exactly the changed cells and a higher objective`, async () => {
+    itSlow(`seed ${seed}: the plain warm start misses, the search finds exactly the changed cells and a higher objective`, async () => {
       const s = refurbishedGrid(seed, 3);
       const { model: old } = await calibrateOld(s);
       const packed = packRuns(s.newRuns);

@@ -1,4 +1,5 @@
 import { describe, it, expect } from 'vitest';
+import { itSlow } from '../helpers/slow.js';
 import { randomModel } from '../helpers/random-model.js';
 import { expectClose } from '../helpers/close.js';
 import { chainFromModel } from '../../src/model/chain-from-model.js';
@@ -107,7 +108,7 @@ describe('accumulateBlock', () => {
     expect(accumulateBlock(c, p, [0, 1, 2, 3, 6, 10, 11], new EStepWorkspace(), 'tied').impossibleRun).toBe(2);
   });
 
-  it('PoolEngine with 2 workers returns the in-process block counts byte for byte, in block order', async () => {
+  itSlow('PoolEngine with 2 workers returns the in-process block counts byte for byte, in block order', async () => {
     const shared = packRuns(runs, true);
     const blocks = [[0, 1, 2, 3, 4, 5, 6, 7], [8, 9, 10, 11, 12, 13, 14]];
     const tied = { ...model, trans: equalSplitTransitions(model.structure, 0.4) };

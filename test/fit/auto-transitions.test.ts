@@ -1,4 +1,5 @@
 import { describe, it, expect } from 'vitest';
+import { itSlow } from '../helpers/slow.js';
 import { autoCandidates, shareRestarts } from '../../src/fit/auto-candidates.js';
 import { selectRestart } from '../../src/fit/select-restart.js';
 import { fitModel, DEFAULT_FIT_OPTIONS } from '../../src/fit/fit-model.js';
@@ -61,7 +62,7 @@ describe('--transitions auto end to end (invented building with per-cell dwells 
     }
   });
 
-  it('auto gives the same model and record with 1 and 2 workers', async () => {
+  itSlow('auto gives the same model and record with 1 and 2 workers', async () => {
     const o = { ...DEFAULT_FIT_OPTIONS, restarts: 4, maxIter: 15 };
     const a = await fitModel(input, o, 1);
     const c = await fitModel(input, o, 2);

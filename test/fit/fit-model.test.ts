@@ -1,4 +1,5 @@
 import { describe, it, expect } from 'vitest';
+import { itSlow } from '../helpers/slow.js';
 import { fitModel, DEFAULT_FIT_OPTIONS } from '../../src/fit/fit-model.js';
 import { buildModel } from '../../src/model/build-model.js';
 import { sampleRun } from '../../src/model/sample-run.js';
@@ -35,7 +36,7 @@ describe('fitModel', () => {
     expect(record.finalPass).not.toBeNull();
   });
 
-  it('fitModel gives bit-identical parameters with 1 and 2 workers', async () => {
+  itSlow('fitModel gives bit-identical parameters with 1 and 2 workers', async () => {
     const a = await fitModel(input, options, 1);
     const b = await fitModel(input, options, 2);
     expect(Buffer.from(b.model.emission.buffer).equals(Buffer.from(a.model.emission.buffer))).toBe(true);
@@ -67,7 +68,7 @@ describe('fitModel', () => {
 
 
 describe('fitModel with --prune', () => {
-  it('records prune, ends within 1e-3 of the exact fit per emission entry, and is byte-identical for 1 and 2 threads', async () => {
+  itSlow('records prune, ends within 1e-3 of the exact fit per emission entry, and is byte-identical for 1 and 2 threads', async () => {
     const pruned = { ...options, restarts: 1, maxIter: 10, prune: 1e-6 };
     const exact = await fitModel(input, { ...pruned, prune: undefined }, 1);
     const a = await fitModel(input, pruned, 1);

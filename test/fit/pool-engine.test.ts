@@ -1,4 +1,5 @@
 import { describe, it, expect } from 'vitest';
+import { itSlow } from '../helpers/slow.js';
 import { randomModel } from '../helpers/random-model.js';
 import { sampleRun } from '../../src/model/sample-run.js';
 import { SeededRandom } from '../../src/model/seeded-random.js';
@@ -16,7 +17,7 @@ const shared = packRuns(runs, true);
 const blocksOf = (size: number): number[][] => Array.from({ length: Math.ceil(runs.length / size) }, (_, b) => runs.slice(b * size, (b + 1) * size).map((_, k) => b * size + k));
 
 describe('PoolEngine(packed, threads)', () => {
-  it('with 3 threads (this one and 2 workers) returns every block byte for byte as in-process, in block order', async () => {
+  itSlow('with 3 threads (this one and 2 workers) returns every block byte for byte as in-process, in block order', async () => {
     const blocks = blocksOf(3);
     const local = new LocalEngine(shared, { mode: 'learned' });
     const pool = new PoolEngine(shared, 3, { mode: 'learned' });
@@ -38,7 +39,7 @@ describe('PoolEngine(packed, threads)', () => {
     }
   });
 
-  it('with --prune: 2 threads return every block byte for byte as in-process; the counts differ from the exact ones by little', async () => {
+  itSlow('with --prune: 2 threads return every block byte for byte as in-process; the counts differ from the exact ones by little', async () => {
     const blocks = blocksOf(4);
     const local = new LocalEngine(shared, { mode: 'tied', prune: 1e-3 });
     const pool = new PoolEngine(shared, 2, { mode: 'tied', prune: 1e-3 });
@@ -60,7 +61,7 @@ describe('PoolEngine(packed, threads)', () => {
     }
   });
 
-  it('works with fewer blocks than threads, and with none', async () => {
+  itSlow('works with fewer blocks than threads, and with none', async () => {
     const pool = new PoolEngine(shared, 4, { mode: 'tied' });
     const local = new LocalEngine(shared, { mode: 'tied' });
     try {

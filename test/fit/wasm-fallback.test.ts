@@ -1,4 +1,5 @@
 import { describe, it, expect, afterEach } from 'vitest';
+import { itSlow } from '../helpers/slow.js';
 import { fitModel, DEFAULT_FIT_OPTIONS } from '../../src/fit/fit-model.js';
 import { buildModel } from '../../src/model/build-model.js';
 import { sampleRun } from '../../src/model/sample-run.js';
@@ -116,7 +117,7 @@ describe('the JavaScript kernels when WebAssembly memory cannot be had', () => {
     expect(want.move!.stayByDistance.some((x) => x > 0)).toBe(true);
   });
 
-  it('a whole fit gives byte-identical parameters and record without WebAssembly memory (1 and 2 threads)', async () => {
+  itSlow('a whole fit gives byte-identical parameters and record without WebAssembly memory (1 and 2 threads)', async () => {
     const input = { floor, runs, floorDigest: 'x', runsDigests: [] };
     const options = { ...DEFAULT_FIT_OPTIONS, restarts: 2, maxIter: 15 };
     const want = await fitModel(input, options, 1);

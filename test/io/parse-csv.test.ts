@@ -172,3 +172,38 @@ describe('parseCsv(text, source) errors', () => {
     expect(csv.lineOfRow(3)).toBe(5);
   });
 });
+
+describe('parseCsv(bytes, source): the file read as bytes, without a text copy', () => {
+  const bytesOf = (text: string): Uint8Array => new Uint8Array(Buffer.from(text, 'utf8'));
+
+  it('parseCsv(bytes) reads the same fields as parseCsv(text), ASCII or not', () => {
+    for (const text of ['a,b\n1,"x\ny"\n2,z\r\n3,w', 'run,reading\nr-ä,"tïle ""x"""\nr-ä,\n"日本",oak\r\n', '\ufeffrun,step\nr1,0\n']) {
+      const fromBytes = parseCsv(bytesOf(text), 'x.csv');
+      const fromText = parseCsv(text, 'x.csv');
+      expect(fromBytes.header).toEqual(fromText.header);
+      expect(values(fromBytes)).toEqual(values(fromText));
+      expect(Array.from({ length: fromBytes.nRows }, (_, r) => fromBytes.lineOfRow(r))).toEqual(
+        Array.from({ length: fromText.nRows }, (_, r) => fromText.lineOfRow(r)),
+      );
+    }
+    expect(values(parseCsv(bytesOf('run,reading\nr-ä,"tïle ""x"""\n'), 'x.csv'))).toEqual([['r-ä'], ['tïle "x"']]);
+  });
+
+  it('parseCsv(bytes) refuses bytes that are not UTF-8: a stray byte, an overlong form, an encoded surrogate', () => {
+    for (const bad of [[0x72, 0xff], [0xc0, 0xaf], [0xed, 0xa0, 0x80]]) {
+      const bytes = new Uint8Array([...Buffer.from('run,step\nr', 'utf8'), ...bad, ...Buffer.from(',0\n', 'utf8')]);
+      expect(() => parseCsv(bytes, 'runs.csv')).toThrow('runs.csv: file must be UTF-8 text, got bytes that are not valid UTF-8');
+    }
+  });
+
+  it('parseCsv(text) refuses text with a lone surrogate (it has no UTF-8 form), naming the line', () => {
+    expectCsvError('run,step\nr1,0\nr\ud800,1\n', 'runs.csv: text must be well-formed Unicode, got a lone surrogate on line 3');
+  });
+
+  it('CsvColumn equals and digits compare the bytes in place', () => {
+    const csv = parseCsv(bytesOf('run,step\nrä,0012\n"r""",123456789012345\n,1234567890123456\n'), 'x.csv');
+    const [run, step] = csv.columns;
+    expect([run.equals(0, 'rä'), run.equals(0, 'r'), run.equals(1, 'r"'), run.equals(2, '')]).toEqual([true, false, true, false]);
+    expect([0, 1, 2].map((row) => step.digits(row))).toEqual([12, 123456789012345, -1]);
+  });
+});

@@ -1,4 +1,5 @@
 import { describe, it, expect } from 'vitest';
+import { itSlow } from '../helpers/slow.js';
 import fc from 'fast-check';
 import { fcSeed } from '../helpers/fc-seed.js';
 import { randomModel, denseTransitions } from '../helpers/random-model.js';
@@ -222,7 +223,7 @@ describe('engine properties (fast-check)', () => {
 });
 
 describe('long runs', () => {
-  it('forwardScore on a 10⁶-step run is finite and within the bounds of its per-reading emissions', () => {
+  itSlow('forwardScore on a 10⁶-step run is finite and within the bounds of its per-reading emissions', () => {
     // 30 cells, 1 000 000 steps: O(cells) memory, no underflow thanks to per-step scaling.
     const model = randomModel(99, { nCells: 30, nReadings: 6 });
     const chain = chainFromModel(model);
