@@ -19,7 +19,7 @@
  * `FLOOR=offices|stripes` (default offices). `REACH=` and `LOOKALIKE=` set the regions' reach (links)
  * and look-alike threshold (total variation); `REACH=0 LOOKALIKE=-1` makes every cell its own region.
  * `NULL_SEARCH=full` runs the whole search on every null draw (compare's draws: warm start and swaps).
- * `STARTS=none` leaves out the re-fit's fresh starts (survey, sensor). `DEBUG=1` prints every trial.
+ * `STARTS=none` leaves out the re-fit's fresh starts (survey, sensor). `KINDS=room,none` runs only those kinds. `DEBUG=1` prints every trial.
  */
 import { DEFAULT_REGION_OPTIONS } from '../src/compare/build-regions.js';
 import { DEFAULT_REFIT_SEARCH } from '../src/compare/search-refit.js';
@@ -41,7 +41,7 @@ console.log(`compare on simulated refurbishments (${layout} floor, ${floor.cells
 console.log(
   ['kind', 'trials', 'reported', 'FDP by region', 'found (≥300 readings)', 'extra per region (max)', 'written unchanged', 'decode 1.5 m / zone: re-fit', 'true new model', 'compare ÷ fit'].join(' | '),
 );
-for (const kind of REFURBISHMENT_KINDS) {
+for (const kind of REFURBISHMENT_KINDS.filter((k) => !process.env.KINDS || process.env.KINDS.split(',').includes(k))) {
   let fdp = 0, withReport = 0, reported = 0, testable = 0, found = 0, extra = 0, maxExtra = 0, writtenUnchanged = 0, compareSeconds = 0, fitSeconds = 0;
   const dec = { rn: 0, rz: 0, tn: 0, tz: 0 };
   for (const seed of seeds) {

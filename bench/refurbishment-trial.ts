@@ -130,7 +130,8 @@ export function refurbishment(b: BenchBuilding, seed: number, kind: Refurbishmen
   const oldRuns = simulate(truth, seed + 1);
   let old = buildModel(floor, { dwell: 0.6, hit: 0.85 });
   const survey = old.emission.slice();
-  for (let it = 0; it < 100; it++) old = emIteration(old, oldRuns, { mode: 'fixed', priorStrength: 10, prior: survey }).model;
+  const iterations = Number(process.env.OLD_ITER ?? 100);
+  for (let it = 0; it < iterations; it++) old = emIteration(old, oldRuns, { mode: 'fixed', priorStrength: 10, prior: survey }).model;
   const oldCounts = emIteration(old, oldRuns, { mode: 'fixed', priorStrength: 0 }).counts.emitT;
   return { old, oldCounts, after, changed, newSurface, newRuns: simulate(after, seed + 2) };
 }

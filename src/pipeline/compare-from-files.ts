@@ -285,7 +285,8 @@ function scoreShift(oldModel: HmmModel, newModel: HmmModel, runs: ReadonlyArray<
 /**
  * The changes table: `cell`, `surface_before`, `surface_after`, `expected_readings`, `tv_distance`,
  * `g_stat`, `p_value` (the cell's own test), `q_value` and `verdict` (its region's), `region` (shared by
- * the cells of one reported change), `candidates` (the region's cells, `;`-separated).
+ * the cells of one reported change), `candidates` (the region's cells, `;`-separated), `explanation` (one
+ * plain sentence: what the cell reads now and before, and why it is flagged).
  */
 export function changesTable(changes: CellChange[]): OutputTable {
   return {
@@ -302,6 +303,7 @@ export function changesTable(changes: CellChange[]): OutputTable {
       { name: 'verdict', kind: 'utf8', get: (r) => changes[r].verdict },
       { name: 'region', kind: 'utf8', get: (r) => changes[r].region },
       { name: 'candidates', kind: 'utf8', get: (r) => changes[r].candidates.join(';') },
+      { name: 'explanation', kind: 'utf8', get: (r) => changes[r].explanation },
     ],
   };
 }
