@@ -15,12 +15,12 @@
  * them had (row: 0.85 on it, the rest spread).
  * Truth: `buildModel(floor, { dwell: 0.6, hit: 0.85 })`, every row redrawn from a Dirichlet of
  * concentration 200 × row. Old runs and new runs: 30 runs of 300 steps each, 2 % dropouts. The old
- * model: 100 EM iterations (fixed transitions) from the survey prior on the old runs.
+ * model: `fit` on the old runs (4 restarts, fixed transitions), with its recorded expected readings.
  */
 import { buildModel } from '../src/model/build-model.js';
 import { sampleRun } from '../src/model/sample-run.js';
 import { SeededRandom } from '../src/model/seeded-random.js';
-import { emIteration } from '../src/fit/em-iteration.js';
+import { fitModel, DEFAULT_FIT_OPTIONS } from '../src/fit/fit-model.js';
 import { compareCells, type CellComparison } from '../src/compare/compare-cells.js';
 import { DEFAULT_REGION_OPTIONS, type RegionOptions } from '../src/compare/build-regions.js';
 import { drawNullRuns } from '../src/compare/draw-null-runs.js';
@@ -100,7 +100,7 @@ function simulate(model: HmmModel, seed: number): SimulatedRun[] {
 }
 
 /** One refurbishment: the old model (calibrated on old runs), the true new model, and the new runs. */
-export function refurbishment(b: BenchBuilding, seed: number, kind: RefurbishmentKind) {
+export async function refurbishment(b: BenchBuilding, seed: number, kind: RefurbishmentKind) {
   const { floor } = b;
   const n = floor.cells.length;
   const m = floor.surfaces.length;
@@ -128,11 +128,11 @@ export function refurbishment(b: BenchBuilding, seed: number, kind: Refurbishmen
     for (const i of changed) for (let r = 0; r < m; r++) after.emission[i * m + r] = r === to ? 0.85 : 0.15 / (m - 1);
   }
   const oldRuns = simulate(truth, seed + 1);
-  let old = buildModel(floor, { dwell: 0.6, hit: 0.85 });
-  const survey = old.emission.slice();
-  const iterations = Number(process.env.OLD_ITER ?? 100);
-  for (let it = 0; it < iterations; it++) old = emIteration(old, oldRuns, { mode: 'fixed', priorStrength: 10, prior: survey }).model;
-  const oldCounts = emIteration(old, oldRuns, { mode: 'fixed', priorStrength: 0 }).counts.emitT;
+  // The old model as users make it: `fit` (4 restarts, 20 % held out, final pass; fixed transitions),
+  // and its expected readings per cell as the model file records them (`fit.cellReadings`).
+  const { model: old, record } = await fitModel({ floor, runs: oldRuns, floorDigest: '', runsDigests: [] }, { ...DEFAULT_FIT_OPTIONS, transitions: 'fixed', dwell: 0.6, hit: 0.85, restarts: 4, seed }, 1);
+  const oldCounts = new Float64Array(n * m);
+  record.cellReadings!.forEach((row, i) => row.forEach((v, r) => (oldCounts[r * n + i] = v)));
   return { old, oldCounts, after, changed, newSurface, newRuns: simulate(after, seed + 2) };
 }
 
@@ -173,7 +173,7 @@ export interface TrialResult {
 /** One trial of compare's whole procedure on a refurbishment (deterministic for a seed). */
 export async function refurbishmentTrial(b: BenchBuilding, seed: number, kind: RefurbishmentKind, options: TrialOptions): Promise<TrialResult> {
   const { floor } = b;
-  const { old, oldCounts, after, changed, newSurface, newRuns } = refurbishment(b, seed, kind);
+  const { old, oldCounts, after, changed, newSurface, newRuns } = await refurbishment(b, seed, kind);
   const search = options.search ?? DEFAULT_REFIT_SEARCH;
   const refitOf = async (runs: ReadonlyArray<{ id: string; obs: Int32Array }>, how: Omit<RefitSearchOptions, 'loop'>) => {
     const packed = packRuns(runs);
