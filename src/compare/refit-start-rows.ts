@@ -1,5 +1,7 @@
 import type { HmmModel } from '../model/hmm-model.js';
-import type { RefitStart } from './search-refit.js';
+
+/** Where a fresh start of `compare`'s re-fit takes its emission rows from. */
+export type RefitStart = 'survey' | 'sensor';
 
 /**
  * Emission rows of a fresh start of `compare`'s re-fit, from the old model alone (cells × readings):

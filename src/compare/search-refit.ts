@@ -6,7 +6,9 @@ import type { EStepEngine } from '../fit/e-step-engine.js';
 import type { PackedRuns } from '../fit/packed-runs.js';
 import type { ExpectedCountsTable } from '../model/expected-counts-table.js';
 import { reduceBlocks } from '../fit/reduce-blocks.js';
-import { refitStartRows } from './refit-start-rows.js';
+import { refitStartRows, type RefitStart } from './refit-start-rows.js';
+
+export type { RefitStart } from './refit-start-rows.js';
 
 /** How `compare` looks for the re-fit (all fixed: the null draws repeat exactly the same search). */
 export interface RefitSearchOptions {
@@ -34,8 +36,6 @@ export interface RefitSearchOptions {
   starts: RefitStart[];
 }
 
-/** Where a candidate start's emission rows come from. */
-export type RefitStart = 'survey' | 'sensor';
 
 export const DEFAULT_REFIT_SEARCH: Omit<RefitSearchOptions, 'loop'> = {
   robust: [0.5, 0.8],
