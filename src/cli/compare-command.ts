@@ -104,6 +104,8 @@ export function formatCompareSummary(res: CompareOutcome, config: Pick<CompareCo
         ]),
       ).trimEnd(),
     );
+    lines.push('', 'why:');
+    for (const c of strongest) lines.push(`  ${c.region} ${c.cell}: ${c.explanation}`);
   }
   if (config.writeFloor && res.unplaced.length) {
     lines.push('', `not written to ${config.writeFloor} (the change could be at any of these cells; inspect them):`);

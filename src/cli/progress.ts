@@ -41,7 +41,7 @@ export function compareProgress(io: CliIo, quiet: boolean): { onProgress?: (p: C
   return lineProgress<CompareProgress | FitProgress>(io, quiet, (p) => {
     if (!('draw' in p)) return describeFit(p);
     const data = p.draw === 0 ? 're-fit of the new runs' : `null draw ${p.draw} of ${p.draws} (simulated, no change)`;
-    const stage = p.stage === 'plain' ? 'warm start' : p.stage === 'robust' ? `robust start ε ${p.robust}` : 'swap search';
+    const stage = p.stage === 'plain' ? 'warm start' : p.stage === 'robust' ? `robust start ε ${p.robust}` : p.stage === 'fresh' ? 'fresh start' : 'swap search';
     return `${data} · ${stage}`;
   });
 }

@@ -5,6 +5,7 @@ import { chiSquareSurvival } from './chi-square-survival.js';
 import { benjaminiHochberg } from './benjamini-hochberg.js';
 import { chiSquareMedian } from './chi-square-median.js';
 import { fSurvival } from './f-survival.js';
+import { explainChange } from './explain-change.js';
 import { buildRegions, DEFAULT_REGION_OPTIONS, type RegionOptions } from './build-regions.js';
 
 export type CellVerdict = 'changed' | 'unchanged' | 'too-few-readings';
@@ -31,6 +32,8 @@ export interface CellChange {
   region: string;
   /** The cells of the region (the cells that could carry its change), strongest evidence first. */
   candidates: string[];
+  /** One plain sentence: what the cell reads now and before, and why it is (not) flagged (`explain-change.ts`). */
+  explanation: string;
 }
 
 /** One region: a set of cells the runs cannot tell apart, tested as one unit. */
@@ -193,6 +196,7 @@ export function compareCells(
       verdict: 'too-few-readings',
       region: '',
       candidates: [],
+      explanation: '',
     });
   }
   let inflation = 1;
@@ -252,7 +256,21 @@ export function compareCells(
     const id = `R${rank + 1}`;
     const verdict: CellVerdict = regionQ[k] === null ? 'too-few-readings' : regionQ[k]! <= options.fdr ? 'changed' : 'unchanged';
     const candidates = r.cells.map((i) => rows[i].cell);
-    for (const i of r.cells) Object.assign(rows[i], { region: id, candidates, qValue: regionQ[k], verdict });
+    for (const i of r.cells) {
+      Object.assign(rows[i], { region: id, candidates, qValue: regionQ[k], verdict });
+      pool(newCountsT, [i], counts);
+      rows[i].explanation = explainChange({
+        surfaces: oldModel.surfaces,
+        oldRow: oldModel.emission.subarray(i * m, (i + 1) * m),
+        newCounts: counts,
+        verdict,
+        pValue: cellP[i],
+        region: id,
+        regionSize: r.cells.length,
+        fdr: options.fdr,
+        minReadings: options.minReadings,
+      });
+    }
     regions.push({ region: id, cells: candidates, expectedReadings: r.total, gStat: r.g, pValue: r.p, qValue: regionQ[k], verdict });
   });
   const regionIndex = new Map(regions.map((r, k) => [r.region, k]));

@@ -30,6 +30,8 @@ import { intoFamily } from '../model/into-family.js';
 import { firstDwell } from '../model/first-dwell.js';
 import { toBlocks } from '../fit/to-blocks.js';
 import { searchRefit, type RefitSearchOptions, type RefitSearchProgress, type RefitSearchResult } from '../compare/search-refit.js';
+import { nullDrawSearch } from '../compare/null-draw-search.js';
+import { placedChanges } from '../compare/placed-changes.js';
 import { TOOL_VERSION } from '../version.js';
 import { compareCells, type CellChange, type CompareOptions, type RegionChange } from '../compare/compare-cells.js';
 import type { KeyColumns } from './key-columns.js';
@@ -127,25 +129,26 @@ export async function compareFromFiles(config: CompareConfig, onProgress?: (p: C
   };
   const n = old.model.cells.length;
   const m = old.model.surfaces.length;
-  // Each re-fit (of the new runs, then of every null draw) is the same search from the old model with
-  // the prior centred on the old rows. Readings are then attributed to cells by the RE-FITTED model:
+  // Each re-fit (of the new runs: the whole search; of every null draw: its warm start and swap
+  // search) starts from the old model with the prior centred on the old rows. Readings are then attributed to cells by the RE-FITTED model:
   // under the old model a changed cell's new readings would be credited to look-alike neighbours.
-  const refitOf = async (runs: ReadonlyArray<{ id: string; obs: Int32Array; moves?: MoveSteps }>, draw: number) => {
+  const refitOf = async (runs: ReadonlyArray<{ id: string; obs: Int32Array; moves?: MoveSteps }>, draw: number, how: RefitSearchOptions) => {
     const packed = packRuns(runs, config.workers > 1);
     const blocks = toBlocks(runs.map((_, r) => r), options.blockSize);
     const engine: EStepEngine = config.workers > 1 ? new PoolEngine(packed, config.workers, { mode }) : new LocalEngine(packed, { mode });
     try {
-      const found = await searchRefit(engine, packed, blocks, start, search, onProgress ? (p) => onProgress({ ...p, draw, draws: config.nullDraws }) : undefined);
+      const found = await searchRefit(engine, packed, blocks, start, how, onProgress ? (p) => onProgress({ ...p, draw, draws: config.nullDraws }) : undefined);
       return { found, countsT: found.counts.emitT, nReadings: found.counts.nReadings };
     } finally {
       await engine.close();
     }
   };
-  const observed = await refitOf(loaded.runs, 0);
+  const observed = await refitOf(loaded.runs, 0, search);
   const refit = observed.found.model;
   const nullCounts: Float64Array[] = [];
   for (let b = 1; b <= config.nullDraws; b++) {
-    nullCounts.push((await refitOf(drawNullRuns(old.model, loaded.runs, nullDrawSeed(options.seed, b)), b)).countsT);
+    // Each draw: the warm start and the swap search only (null-draw-search.ts), not the whole search.
+    nullCounts.push((await refitOf(drawNullRuns(old.model, loaded.runs, nullDrawSeed(options.seed, b)), b, nullDrawSearch(search))).countsT);
   }
   const { changes, regions, inflation } = compareCells(
     // Regions never cross the floor's zones (the floor's, which may be newer than the model's).
@@ -173,7 +176,8 @@ export async function compareFromFiles(config: CompareConfig, onProgress?: (p: C
   let newFloor: FloorGraph | null = null;
   if (config.writeFloor) {
     // Only changes the runs place on one cell; a region's change could be at any of its cells.
-    const changed = new Map(changes.filter((c) => placed.has(c.cell)).map((c) => [c.cell, c.surfaceAfter]));
+    const surveyed = new Map(floor.cells.map((c) => [c.id, c.surface] as const));
+    const changed = placedChanges({ changes, regions }, (id) => surveyed.get(id));
     newFloor = { ...floor, cells: floor.cells.map((c) => (changed.has(c.id) ? { ...c, surface: changed.get(c.id)! } : c)) };
   }
   if (config.out) await writeTable(config.out, changesTable(changes));
@@ -281,7 +285,8 @@ function scoreShift(oldModel: HmmModel, newModel: HmmModel, runs: ReadonlyArray<
 /**
  * The changes table: `cell`, `surface_before`, `surface_after`, `expected_readings`, `tv_distance`,
  * `g_stat`, `p_value` (the cell's own test), `q_value` and `verdict` (its region's), `region` (shared by
- * the cells of one reported change), `candidates` (the region's cells, `;`-separated).
+ * the cells of one reported change), `candidates` (the region's cells, `;`-separated), `explanation` (one
+ * plain sentence: what the cell reads now and before, and why it is flagged).
  */
 export function changesTable(changes: CellChange[]): OutputTable {
   return {
@@ -298,6 +303,7 @@ export function changesTable(changes: CellChange[]): OutputTable {
       { name: 'verdict', kind: 'utf8', get: (r) => changes[r].verdict },
       { name: 'region', kind: 'utf8', get: (r) => changes[r].region },
       { name: 'candidates', kind: 'utf8', get: (r) => changes[r].candidates.join(';') },
+      { name: 'explanation', kind: 'utf8', get: (r) => changes[r].explanation },
     ],
   };
 }

@@ -10,7 +10,8 @@ const VERDICTS: readonly Verdict[] = ['changed', 'unchanged', 'too-few-readings'
 /**
  * Rows of a changes table (as `compare` writes it): `cell` and `verdict` are required, and every cell
  * must be a cell of the model; `surface_before`, `surface_after`, `expected_readings`, `tv_distance`,
- * `q_value` are shown when present. A cell listed twice is an error.
+ * `q_value`, `region`, `candidates` and `explanation` are shown when present (tables written before
+ * regions have no `region`: each changed cell is then shown on its own). A cell listed twice is an error.
  */
 export function changeRowsFromTable(table: NamedColumns, cellIds: readonly string[]): ChangeRow[] {
   const cell = requiredColumn(table, 'cell', WHAT);
@@ -20,6 +21,9 @@ export function changeRowsFromTable(table: NamedColumns, cellIds: readonly strin
   const expected = table.column('expected_readings');
   const tv = table.column('tv_distance');
   const q = table.column('q_value');
+  const region = table.column('region');
+  const candidates = table.column('candidates');
+  const explanation = table.column('explanation');
   const known = new Set(cellIds);
   const seen = new Set<string>();
   const rows: ChangeRow[] = [];
@@ -42,6 +46,9 @@ export function changeRowsFromTable(table: NamedColumns, cellIds: readonly strin
       expectedReadings: expected ? numericValue(expected(r)) : NaN,
       tvDistance: tv ? numericValue(tv(r)) : NaN,
       qValue: q ? numericValue(q(r)) : NaN,
+      region: text(region, r),
+      candidates: (text(candidates, r) ?? '').split(';').filter((c) => c !== ''),
+      explanation: text(explanation, r),
     });
   }
   return rows;

@@ -34,6 +34,12 @@ export interface ChangeRow {
   expectedReadings: number;
   tvDistance: number;
   qValue: number;
+  /** The region (`compare`'s `region` column: cells the runs cannot tell apart share one); null when absent. */
+  region: string | null;
+  /** The region's cells (`candidates`, `;`-separated in the table); [] when absent. */
+  candidates: string[];
+  /** `compare`'s plain sentence for the row; null when absent. */
+  explanation: string | null;
 }
 
 /** Display names of the files a report was made from (shown in its footer). */

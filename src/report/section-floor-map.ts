@@ -1,4 +1,4 @@
-import type { ReportData } from './report-data.js';
+import type { ChangeRow, ReportData } from './report-data.js';
 import { svgFloorMap, type MapLayer } from './svg-floor-map.js';
 import { svgRampLegend } from './svg-ramp-legend.js';
 import { htmlSwatchLegend } from './html-swatch-legend.js';
@@ -95,7 +95,8 @@ export function sectionFloorMap(d: ReportData): string {
           const c = ch[i];
           if (!c) return `${ids[i]}: not in the changes table`;
           const move = c.surfaceBefore && c.surfaceAfter ? `, reads ${c.surfaceBefore} → ${c.surfaceAfter}` : '';
-          return `${ids[i]}: ${c.verdict}${move}; total variation ${formatNumber(c.tvDistance, 'p')}, q ${formatNumber(c.qValue, 'g')}, ${formatNumber(c.expectedReadings, 'g')} expected readings`;
+          const region = c.region && c.candidates.length > 1 ? ` (region ${c.region}, ${c.candidates.length} cells)` : c.region ? ` (region ${c.region})` : '';
+          return `${ids[i]}: ${c.verdict}${region}${move}; total variation ${formatNumber(c.tvDistance, 'p')}, q ${formatNumber(c.qValue, 'g')}, ${formatNumber(c.expectedReadings, 'g')} expected readings${c.explanation ? `. ${c.explanation}` : ''}`;
         },
       },
       legend: htmlSwatchLegend([
@@ -122,21 +123,33 @@ export function sectionFloorMap(d: ReportData): string {
   let changedTable = '';
   if (d.changeRows) {
     const changed = d.changeRows.filter((c) => c.verdict === 'changed');
-    changedTable = changed.length
-      ? `<h3>Changed cells</h3>` +
+    // One row per reported change: a region (cells the runs cannot tell apart) or, in tables written
+    // before regions, a cell. Its strongest cell (listed first in the region's candidates) speaks for it.
+    const byRegion = new Map<string, ChangeRow[]>();
+    for (const c of changed) {
+      const key = c.region ?? `cell ${c.cell}`;
+      byRegion.set(key, [...(byRegion.get(key) ?? []), c]);
+    }
+    const reported = [...byRegion.entries()].map(([key, rows]) => {
+      const lead = rows.find((c) => c.candidates[0] === c.cell) ?? rows[0];
+      return { key, lead, cells: lead.candidates.length ? lead.candidates : rows.map((c) => c.cell) };
+    });
+    changedTable = reported.length
+      ? `<h3>Reported changes</h3>` +
+        '<p>Each reported change is a region: one cell where the runs place it, or the cells the runs cannot tell apart (they read alike and lie near each other), any of which could carry it. The false-discovery rate holds over these changes. A change over several cells is not written to a floor by <code>compare --write-floor</code>: inspect its cells on site.</p>' +
         htmlTable(
           [
-            { header: 'cell', text: (c) => c.cell },
-            { header: 'reads before', text: (c) => c.surfaceBefore ?? '–' },
-            { header: 'reads after', text: (c) => c.surfaceAfter ?? '–' },
-            { header: 'expected readings', text: (c) => formatNumber(c.expectedReadings, 'g'), numeric: true },
-            { header: 'total variation', text: (c) => formatNumber(c.tvDistance, 'p'), numeric: true },
-            { header: 'q-value', text: (c) => formatNumber(c.qValue, 'g'), numeric: true },
+            { header: 'region', text: (r) => (r.lead.region ?? '–') },
+            { header: 'cells that could carry it', text: (r) => (r.cells.length === 1 ? `${r.cells[0]} (placed)` : `${r.cells.length}: ${r.cells.join(', ')}`) },
+            { header: 'reads before', text: (r) => r.lead.surfaceBefore ?? '–' },
+            { header: 'reads after', text: (r) => r.lead.surfaceAfter ?? '–' },
+            { header: 'q-value', text: (r) => formatNumber(r.lead.qValue, 'g'), numeric: true },
+            { header: 'why', text: (r) => r.lead.explanation ?? `total variation ${formatNumber(r.lead.tvDistance, 'p')} over ${formatNumber(r.lead.expectedReadings, 'g')} expected readings` },
           ],
-          changed.slice(0, 40),
+          reported.slice(0, 40),
         ) +
-        (changed.length > 40 ? `<p class="more">and ${changed.length - 40} more changed cells in the changes table.</p>` : '')
-      : '<p>The changes table marks no cell as changed.</p>';
+        (reported.length > 40 ? `<p class="more">and ${reported.length - 40} more reported changes in the changes table.</p>` : '')
+      : '<p>The changes table reports no change.</p>';
   }
   return (
     '<section id="floor-map" aria-labelledby="floor-map-h">' +

@@ -34,7 +34,9 @@ describe('compare', () => {
     expect(r.stdout).toMatch(/log-likelihood per reading -?\d/);
     const t = parseCsv(readFileSync(p('changes.csv'), 'utf8'), 'changes.csv');
     // The per-cell columns, then the region columns (added: a change the runs cannot place on one cell).
-    expect(t.header).toEqual(['cell', 'surface_before', 'surface_after', 'expected_readings', 'tv_distance', 'g_stat', 'p_value', 'q_value', 'verdict', 'region', 'candidates']);
+    expect(t.header).toEqual(['cell', 'surface_before', 'surface_after', 'expected_readings', 'tv_distance', 'g_stat', 'p_value', 'q_value', 'verdict', 'region', 'candidates', 'explanation']);
+    // One plain sentence per row.
+    for (const e of t.columns[11].toArray()) expect(String(e)).toMatch(/^(Reads|Only) .+\.$/);
     expect(t.nRows).toBe(12);
     // Every cell is in exactly one region; its candidates are the region's cells, itself among them.
     const regionOf = new Map<string, string>();
@@ -153,6 +155,10 @@ describe('compare on a refurbished building (regions)', () => {
     // The worn cell: placed on itself.
     expect(col('verdict')[rowOf(worn)]).toBe('changed');
     expect(col('candidates')[rowOf(worn)]).toBe(worn);
+    // Its sentence: what it reads now and before (item 5 of the change).
+    expect(col('explanation')[rowOf(worn)]).toMatch(/^Reads carpet \d+ % of the time, was \w+ \d+ %/);
+    expect(col('explanation')[rowOf(officeA[0])]).toContain('cannot tell apart');
+    expect(r.stdout).toContain(`${col('region')[rowOf(worn)]} ${worn}: Reads carpet`);
     // --write-floor: the worn cell's new surface; the office (a change the floor file cannot place cell
     // by cell) left as it was, listed for inspection in the summary and a warning.
     const written = parseFloor(readFileSync(p('o-floor.json'), 'utf8'), 'o-floor.json');

@@ -31,7 +31,7 @@ describe('searchRefit: the re-fit credits a change to the cell that changed', ()
       const n = s.floor.cells.length;
       const m = s.surfaces.length;
       const changed = [...s.changed].sort((a, b) => a - b);
-      const plain = await searchRefit(engine, packed, blocksOf(40), old, { ...DEFAULT_REFIT_SEARCH, robust: [], swapRounds: 0, loop });
+      const plain = await searchRefit(engine, packed, blocksOf(40), old, { ...DEFAULT_REFIT_SEARCH, robust: [], starts: [], swapRounds: 0, loop });
       const full = await searchRefit(engine, packed, blocksOf(40), old, { ...DEFAULT_REFIT_SEARCH, loop });
       expect(moved(plain.model, old, n, m)).not.toEqual(changed); // the case is a hard one
       expect(moved(full.model, old, n, m)).toEqual(changed);
@@ -45,7 +45,7 @@ describe('searchRefit: the re-fit credits a change to the cell that changed', ()
     const packed = packRuns(s.newRuns);
     const engine = new LocalEngine(packed, { mode: 'fixed' });
     const loop: RefitSearchOptions['loop'] = { mode: 'fixed', priorStrength: 10, prior: old.emission, maxIter: 50, tol: 1e-8 };
-    const plain = await searchRefit(engine, packed, blocksOf(40), old, { ...DEFAULT_REFIT_SEARCH, robust: [], swapRounds: 0, loop });
+    const plain = await searchRefit(engine, packed, blocksOf(40), old, { ...DEFAULT_REFIT_SEARCH, robust: [], starts: [], swapRounds: 0, loop });
     const direct = await runSquarem(engine, packed, old, blocksOf(40), loop);
     expect(Array.from(plain.model.emission)).toEqual(Array.from(direct.model.emission));
     expect(plain.candidates).toHaveLength(1);

@@ -8,13 +8,19 @@ const HEADER = 'cell,surface_before,surface_after,expected_readings,tv_distance,
 describe('changeRowsFromTable(table, cellIds)', () => {
   it('reads the columns compare writes; empty statistics are NaN', () => {
     const rows = read(`${HEADER}\na,oak,carpet,412.5,0.61,300.2,1e-9,3e-9,changed\nc,oak,oak,12,0.1,,,,too-few-readings`);
-    expect(rows[0]).toEqual({ cell: 'a', verdict: 'changed', surfaceBefore: 'oak', surfaceAfter: 'carpet', expectedReadings: 412.5, tvDistance: 0.61, qValue: 3e-9 });
+    expect(rows[0]).toEqual({ cell: 'a', verdict: 'changed', surfaceBefore: 'oak', surfaceAfter: 'carpet', expectedReadings: 412.5, tvDistance: 0.61, qValue: 3e-9, region: null, candidates: [], explanation: null });
     expect(rows[1].verdict).toBe('too-few-readings');
     expect(Number.isNaN(rows[1].qValue)).toBe(true);
   });
 
+  it('reads the region, its candidates and the explanation when present', () => {
+    const rows = read(`${HEADER},region,candidates,explanation\na,oak,carpet,412.5,0.61,300.2,1e-9,3e-9,changed,R1,a;b,"Reads carpet 62 % of the time, was oak 80 %: flagged."\nb,oak,oak,300,0.05,2,0.5,3e-9,changed,R1,a;b,x`);
+    expect(rows[0]).toMatchObject({ region: 'R1', candidates: ['a', 'b'], explanation: 'Reads carpet 62 % of the time, was oak 80 %: flagged.' });
+    expect(rows[1].candidates).toEqual(['a', 'b']);
+  });
+
   it('needs only cell and verdict', () => {
-    expect(read('cell,verdict\nb,unchanged')).toEqual([{ cell: 'b', verdict: 'unchanged', surfaceBefore: null, surfaceAfter: null, expectedReadings: NaN, tvDistance: NaN, qValue: NaN }]);
+    expect(read('cell,verdict\nb,unchanged')).toEqual([{ cell: 'b', verdict: 'unchanged', surfaceBefore: null, surfaceAfter: null, expectedReadings: NaN, tvDistance: NaN, qValue: NaN, region: null, candidates: [], explanation: null }]);
   });
 
   it('names the file and line of a cell the model lacks, a repeated cell, a bad verdict or a missing column', () => {

@@ -48,7 +48,11 @@ describe('renderReport(buildReportData(inputs))', () => {
     expect(floorMap.match(/<line class="oneway"[^>]*marker-end="url\(#fm-0-arrow\)"/g)).toHaveLength(1);
     expect(floorMap.match(/<circle class="cross-level"/g)).toHaveLength(2); // one end on each level
     expect(floorMap.match(/<g class="layer layer-surface">/g)).toHaveLength(2);
-    expect(floorMap).toContain('G-1-1: changed, reads tile → oak');
+    expect(floorMap).toContain('G-1-1: changed (region R1), reads tile → oak');
+    // Reported changes: one row per region, with the cells that could carry it and its sentence.
+    expect(floorMap).toContain('<h3>Reported changes</h3>');
+    expect(floorMap).toContain('<td>R1</td><td>G-1-1 (placed)</td><td>tile</td><td>oak</td>');
+    expect(floorMap).toContain('Reads oak 70 % of the time, was tile 80 %');
   });
 
   it('outlines and names the zones on every map of a level that has them, and rates recovery per zone', () => {

@@ -88,9 +88,9 @@ export function reportFixture(hostile = false): ReportInputs & { floor: FloorGra
     annotated,
     runRows,
     changes: [
-      { cell: cells[worn].id, verdict: 'changed', surfaceBefore: surfaces[2], surfaceAfter: 'oak', expectedReadings: 210, tvDistance: 0.52, qValue: 1e-6 },
-      { cell: hostile ? HOSTILE.cell : 'G-0-0', verdict: 'unchanged', surfaceBefore: 'oak', surfaceAfter: 'oak', expectedReadings: 150, tvDistance: 0.03, qValue: 0.8 },
-      { cell: 'U-1-1', verdict: 'too-few-readings', surfaceBefore: 'carpet', surfaceAfter: 'carpet', expectedReadings: 4, tvDistance: 0.2, qValue: NaN },
+      { cell: cells[worn].id, verdict: 'changed', surfaceBefore: surfaces[2], surfaceAfter: 'oak', expectedReadings: 210, tvDistance: 0.52, qValue: 1e-6, region: 'R1', candidates: [cells[worn].id], explanation: `Reads oak 70 % of the time, was ${surfaces[2]} 80 %: flagged, and the runs place the change on this cell.` },
+      { cell: hostile ? HOSTILE.cell : 'G-0-0', verdict: 'unchanged', surfaceBefore: 'oak', surfaceAfter: 'oak', expectedReadings: 150, tvDistance: 0.03, qValue: 0.8, region: 'R2', candidates: [hostile ? HOSTILE.cell : 'G-0-0'], explanation: null },
+      { cell: 'U-1-1', verdict: 'too-few-readings', surfaceBefore: 'carpet', surfaceAfter: 'carpet', expectedReadings: 4, tvDistance: 0.2, qValue: NaN, region: 'R3', candidates: ['U-1-1'], explanation: null },
     ],
     sources: { model: 'model.json', floor: 'floor.json', annotated: 'annotated.csv', summary: 'runs.csv', changes: hostile ? '<changes>.csv' : 'changes.csv' },
     ambiguity: { runs: 30, steps: 100, seed: 5 },
