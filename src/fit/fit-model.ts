@@ -208,7 +208,9 @@ export async function fitModel(
     const selectedMode = plan[selected].mode;
     const loopOptions = loopOptionsOf(selectedMode);
     const heldObs = split.heldOut.map((r) => packed.obs.subarray(packed.offsets[r], packed.offsets[r + 1]));
-    const calibration = heldObs.length ? predictiveCalibration(models[selected], heldObs) : null;
+    // With odometry (and a model that uses it) each held-out run is forecast with its per-step transitions.
+    const heldMoves = useMovement ? split.heldOut.map((r) => runs[r].moves) : undefined;
+    const calibration = heldObs.length ? predictiveCalibration(models[selected], heldObs, undefined, heldMoves) : null;
     let model = models[selected];
     let finalPass: LoopRecord | null = null;
     let finalCounts: ExpectedCountsTable | null = null;
