@@ -13,7 +13,6 @@ import { denseMoveTransition, randomMoveModel, randomMoveSteps } from '../helper
 import { forwardMoveSegment } from '../../src/kernels/forward-move-segment.js';
 import { sampleOdometry } from '../../src/model/sample-odometry.js';
 import { moveStepsFromOdometry } from '../../src/model/move-steps-from-odometry.js';
-import { buildModel } from '../../src/model/build-model.js';
 
 describe('predictiveReliability (kernel)', () => {
   it('bins the top one-step-ahead forecast computed from the forward pass, and returns log P(readings)', () => {
