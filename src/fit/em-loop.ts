@@ -83,7 +83,7 @@ export async function runEm(
           `EM iteration ${iterations}: the objective must not decrease, got ${previous} → ${perReading} per reading; this is a defect, please report it with the inputs`,
         );
       }
-      if (Math.abs(perReading - previous) <= options.tol * Math.abs(previous) + 1e-15) {
+      if (converged(history, options.tol, options.projected === true)) {
         return { model, iterations, stopReason: 'converged', history, logLikPerReading: counts.logLik / Math.max(1, counts.nReadings), counts };
       }
     }
@@ -97,4 +97,29 @@ export async function runEm(
     if (afterStep) await afterStep({ model, iterations, history: history.slice() });
     if (signal?.aborted) throw new InterruptedError('the fit was interrupted', signal.reason === 'SIGTERM' ? 'SIGTERM' : 'SIGINT');
   }
+}
+
+/**
+ * The stopping rule on the objectives per reading so far (`history`, last entry the current model's):
+ * the relative change of the last iteration is at most `tol`; with `projected`, also the gain still to
+ * come if EM keeps converging linearly at its current rate, Aitken's projection (Böhning et al. 1994,
+ * "The distribution of the likelihood ratio for mixtures of densities from the one-parameter
+ * exponential family", Ann. Inst. Statist. Math. 46(2), 373–388; from memory):
+ * a = Δ_k / Δ_{k−1}, remaining = Δ_k · a / (1 − a), where Δ_k is the k-th change. A rate a ≥ 1 (not
+ * yet converging linearly) does not stop; a rate ≤ 0 (a flat or jittering objective) falls back to
+ * the plain rule. The projected rule never stops earlier than the plain one.
+ */
+export function converged(history: readonly number[], tol: number, projected: boolean): boolean {
+  const k = history.length - 1;
+  if (k < 1) return false;
+  const cur = history[k];
+  const delta = cur - history[k - 1];
+  const bound = tol * Math.abs(history[k - 1]) + 1e-15;
+  if (Math.abs(delta) > bound) return false;
+  if (!projected || k < 2) return !projected || Math.abs(delta) <= 1e-15;
+  const before = history[k - 1] - history[k - 2];
+  if (!(delta > 0) || !(before > 0)) return true;
+  const a = delta / before;
+  if (a >= 1) return false;
+  return (delta * a) / (1 - a) <= bound;
 }

@@ -27,6 +27,7 @@ import { reduceBlocks } from './reduce-blocks.js';
 import type { ExpectedCountsTable } from '../model/expected-counts-table.js';
 import type { TransitionMode } from '../model/hmm-model.js';
 import { equalSplitTransitions } from '../model/equal-split-transitions.js';
+import { firstDwell } from '../model/first-dwell.js';
 import { autoCandidates, shareRestarts } from './auto-candidates.js';
 import { predictiveCalibration } from './predictive-calibration.js';
 
@@ -134,7 +135,10 @@ export async function fitModel(
   const base = baseOf(modes[0]);
   const surfaceIndex = new Map(floor.surfaces.map((s, r) => [s, r] as const));
   const prior = input.prior ?? surveyPrior(Int32Array.from(floor.cells, (c) => surfaceIndex.get(c.surface) ?? 0), floor.surfaces.length, o.hit);
-  const centre = equalSplitTransitions(base.structure, o.dwell);
+  // Centre of the `per-cell`/`learned` transition priors: dwell `o.dwell` with an equal split; in `auto`,
+  // once the `tied` candidates are fitted, their chosen restart's dwell (the building's dwell as the data
+  // give it) instead (`tiedCentre`).
+  let centre = equalSplitTransitions(base.structure, o.dwell);
   // A pruned E-step's objective may fall by up to twice its bound (Σ_t −log(1 − eps) per run,
   // DEVELOPERS.md "Pruned E-step") between iterations; the loop takes such a fall as convergence.
   const prune = o.prune ?? 0;
@@ -142,7 +146,7 @@ export async function fitModel(
   const pruneSlack = prune > 0 ? { decreaseSlack: -2 * Math.log1p(-prune) * totalSteps } : {};
   const loopOptionsOf = (mode: TransitionMode): EmLoopOptions =>
     mode === 'per-cell' || mode === 'learned'
-      ? { mode, priorStrength: o.priorStrength, prior, maxIter: o.maxIter, tol: o.tol, transitionPriorStrength: o.transitionPriorStrength ?? 0, transitionCentre: centre, ...pruneSlack }
+      ? { mode, priorStrength: o.priorStrength, prior, maxIter: o.maxIter, tol: o.tol, transitionPriorStrength: o.transitionPriorStrength ?? 0, transitionCentre: centre, projected: process.env.UF_PROJ === '1', ...pruneSlack }
       : { mode, priorStrength: o.priorStrength, prior, maxIter: o.maxIter, tol: o.tol, ...pruneSlack };
   const fitBlocks = toBlocks(split.fit, o.blockSize);
   const heldBlocks = toBlocks(split.heldOut, o.blockSize);
@@ -179,8 +183,14 @@ export async function fitModel(
         : undefined,
       signal: control.signal,
     });
+    let centred = false;
     for (let k = 0; k < plan.length; k++) {
       const { mode, index, seed } = plan[k];
+      if (!centred && process.env.UF_CENTRE === '1' && (mode === 'per-cell' || mode === 'learned')) {
+        const tied = tiedCentre(plan, restarts, models, split.heldOut.length > 0);
+        if (tied) centre = tied;
+        centred = true;
+      }
       const { model: start, dwell } = startingPoint(baseOf(mode), mode, index, seed);
       if (k < done.length) {
         restarts.push(done[k].record);
@@ -268,6 +278,17 @@ interface PlannedRestart {
  * shared out among them (`shareRestarts`), mode by mode. Restart k of every mode uses the k-th seed, and
  * restart 0 of every mode starts from the survey prior (or the warm start).
  */
+/**
+ * The prior centre from the `tied` candidates fitted so far: the dwell of the one `selectRestart` would
+ * choose among them, with the rest split equally over each cell's links; null when none was fitted.
+ */
+function tiedCentre(plan: PlannedRestart[], restarts: LoopRecord[], models: HmmModel[], byHeldOut: boolean): Float64Array | null {
+  const tied = restarts.map((_, k) => k).filter((k) => plan[k].mode === 'tied');
+  if (tied.length === 0) return null;
+  const best = tied[selectRestart(tied.map((k) => restarts[k]), byHeldOut)];
+  return equalSplitTransitions(models[best].structure, firstDwell(models[best]));
+}
+
 function restartPlan(modes: TransitionMode[], restarts: number, seed: number): PlannedRestart[] {
   const counts = modes.length > 1 ? shareRestarts(restarts, modes.length) : [restarts];
   const seeds = restartSeeds(seed, Math.max(...counts));
