@@ -9,6 +9,7 @@ import type { EStepEngine } from './e-step-engine.js';
 import type { PackedRuns } from './packed-runs.js';
 import type { StopReason } from './fit-record.js';
 import { reduceBlocks } from './reduce-blocks.js';
+import { emConverged } from './em-converged.js';
 
 export type { EmLoopOptions } from './em-loop-options.js';
 import type { EmLoopOptions } from './em-loop-options.js';
@@ -51,7 +52,7 @@ const DECREASE_TOLERANCE = 1e-9;
  * The EM loop, in the order init → E-step → bound → M-step → report → stop: at each iteration the
  * E-step over all blocks (reduced in block order) gives the objective (log-likelihood + emission and
  * transition log priors, `emObjective`) per reading of the current model; the loop stops when its relative change from the previous
- * iteration is below `tol` ("converged") or after `maxIter` M-steps ("max-iter"). A decrease beyond
+ * iteration is below `tol` (with `projected`, also the gain still to come: `emConverged`) ("converged") or after `maxIter` M-steps ("max-iter"). A decrease beyond
  * rounding stops the fit with an error: EM cannot decrease its objective, so it means a defect.
  */
 export async function runEm(
@@ -83,7 +84,7 @@ export async function runEm(
           `EM iteration ${iterations}: the objective must not decrease, got ${previous} → ${perReading} per reading; this is a defect, please report it with the inputs`,
         );
       }
-      if (converged(history, options.tol, options.projected === true)) {
+      if (emConverged(history, options.tol, options.projected === true)) {
         return { model, iterations, stopReason: 'converged', history, logLikPerReading: counts.logLik / Math.max(1, counts.nReadings), counts };
       }
     }
@@ -99,27 +100,3 @@ export async function runEm(
   }
 }
 
-/**
- * The stopping rule on the objectives per reading so far (`history`, last entry the current model's):
- * the relative change of the last iteration is at most `tol`; with `projected`, also the gain still to
- * come if EM keeps converging linearly at its current rate, Aitken's projection (Böhning et al. 1994,
- * "The distribution of the likelihood ratio for mixtures of densities from the one-parameter
- * exponential family", Ann. Inst. Statist. Math. 46(2), 373–388; from memory):
- * a = Δ_k / Δ_{k−1}, remaining = Δ_k · a / (1 − a), where Δ_k is the k-th change. A rate a ≥ 1 (not
- * yet converging linearly) does not stop; a rate ≤ 0 (a flat or jittering objective) falls back to
- * the plain rule. The projected rule never stops earlier than the plain one.
- */
-export function converged(history: readonly number[], tol: number, projected: boolean): boolean {
-  const k = history.length - 1;
-  if (k < 1) return false;
-  const cur = history[k];
-  const delta = cur - history[k - 1];
-  const bound = tol * Math.abs(history[k - 1]) + 1e-15;
-  if (Math.abs(delta) > bound) return false;
-  if (!projected || k < 2) return !projected || Math.abs(delta) <= 1e-15;
-  const before = history[k - 1] - history[k - 2];
-  if (!(delta > 0) || !(before > 0)) return true;
-  const a = delta / before;
-  if (a >= 1) return false;
-  return (delta * a) / (1 - a) <= bound;
-}

@@ -27,7 +27,7 @@ import { reduceBlocks } from './reduce-blocks.js';
 import type { ExpectedCountsTable } from '../model/expected-counts-table.js';
 import type { TransitionMode } from '../model/hmm-model.js';
 import { equalSplitTransitions } from '../model/equal-split-transitions.js';
-import { firstDwell } from '../model/first-dwell.js';
+import { tiedCentre } from './tied-centre.js';
 import { autoCandidates, shareRestarts } from './auto-candidates.js';
 import { predictiveCalibration } from './predictive-calibration.js';
 
@@ -83,7 +83,7 @@ export const DEFAULT_FIT_OPTIONS: FitOptions = {
   hit: 0.8,
   priorStrength: 10,
   transitionPriorStrength: DEFAULT_TRANSITION_PRIOR_STRENGTH,
-  maxIter: 200,
+  maxIter: 1000,
   tol: 1e-6,
   finalPass: true,
   blockSize: 8,
@@ -146,7 +146,7 @@ export async function fitModel(
   const pruneSlack = prune > 0 ? { decreaseSlack: -2 * Math.log1p(-prune) * totalSteps } : {};
   const loopOptionsOf = (mode: TransitionMode): EmLoopOptions =>
     mode === 'per-cell' || mode === 'learned'
-      ? { mode, priorStrength: o.priorStrength, prior, maxIter: o.maxIter, tol: o.tol, transitionPriorStrength: o.transitionPriorStrength ?? 0, transitionCentre: centre, projected: process.env.UF_PROJ === '1', ...pruneSlack }
+      ? { mode, priorStrength: o.priorStrength, prior, maxIter: o.maxIter, tol: o.tol, transitionPriorStrength: o.transitionPriorStrength ?? 0, transitionCentre: centre, projected: true, ...pruneSlack }
       : { mode, priorStrength: o.priorStrength, prior, maxIter: o.maxIter, tol: o.tol, ...pruneSlack };
   const fitBlocks = toBlocks(split.fit, o.blockSize);
   const heldBlocks = toBlocks(split.heldOut, o.blockSize);
@@ -186,8 +186,8 @@ export async function fitModel(
     let centred = false;
     for (let k = 0; k < plan.length; k++) {
       const { mode, index, seed } = plan[k];
-      if (!centred && process.env.UF_CENTRE === '1' && (mode === 'per-cell' || mode === 'learned')) {
-        const tied = tiedCentre(plan, restarts, models, split.heldOut.length > 0);
+      if (!centred && (mode === 'per-cell' || mode === 'learned')) {
+        const tied = tiedCentre(plan.map((p) => p.mode), restarts, models, split.heldOut.length > 0);
         if (tied) centre = tied;
         centred = true;
       }
@@ -278,17 +278,6 @@ interface PlannedRestart {
  * shared out among them (`shareRestarts`), mode by mode. Restart k of every mode uses the k-th seed, and
  * restart 0 of every mode starts from the survey prior (or the warm start).
  */
-/**
- * The prior centre from the `tied` candidates fitted so far: the dwell of the one `selectRestart` would
- * choose among them, with the rest split equally over each cell's links; null when none was fitted.
- */
-function tiedCentre(plan: PlannedRestart[], restarts: LoopRecord[], models: HmmModel[], byHeldOut: boolean): Float64Array | null {
-  const tied = restarts.map((_, k) => k).filter((k) => plan[k].mode === 'tied');
-  if (tied.length === 0) return null;
-  const best = tied[selectRestart(tied.map((k) => restarts[k]), byHeldOut)];
-  return equalSplitTransitions(models[best].structure, firstDwell(models[best]));
-}
-
 function restartPlan(modes: TransitionMode[], restarts: number, seed: number): PlannedRestart[] {
   const counts = modes.length > 1 ? shareRestarts(restarts, modes.length) : [restarts];
   const seeds = restartSeeds(seed, Math.max(...counts));
