@@ -27,7 +27,6 @@ import { reduceBlocks } from './reduce-blocks.js';
 import type { ExpectedCountsTable } from '../model/expected-counts-table.js';
 import type { TransitionMode } from '../model/hmm-model.js';
 import { equalSplitTransitions } from '../model/equal-split-transitions.js';
-import { tiedCentre } from './tied-centre.js';
 import { autoCandidates, shareRestarts } from './auto-candidates.js';
 import { predictiveCalibration } from './predictive-calibration.js';
 
@@ -135,10 +134,7 @@ export async function fitModel(
   const base = baseOf(modes[0]);
   const surfaceIndex = new Map(floor.surfaces.map((s, r) => [s, r] as const));
   const prior = input.prior ?? surveyPrior(Int32Array.from(floor.cells, (c) => surfaceIndex.get(c.surface) ?? 0), floor.surfaces.length, o.hit);
-  // Centre of the `per-cell`/`learned` transition priors: dwell `o.dwell` with an equal split; in `auto`,
-  // once the `tied` candidates are fitted, their chosen restart's dwell (the building's dwell as the data
-  // give it) instead (`tiedCentre`).
-  let centre = equalSplitTransitions(base.structure, o.dwell);
+  const centre = equalSplitTransitions(base.structure, o.dwell);
   // A pruned E-step's objective may fall by up to twice its bound (Σ_t −log(1 − eps) per run,
   // DEVELOPERS.md "Pruned E-step") between iterations; the loop takes such a fall as convergence.
   const prune = o.prune ?? 0;
@@ -183,14 +179,8 @@ export async function fitModel(
         : undefined,
       signal: control.signal,
     });
-    let centred = false;
     for (let k = 0; k < plan.length; k++) {
       const { mode, index, seed } = plan[k];
-      if (!centred && (mode === 'per-cell' || mode === 'learned')) {
-        const tied = tiedCentre(plan.map((p) => p.mode), restarts, models, split.heldOut.length > 0);
-        if (tied) centre = tied;
-        centred = true;
-      }
       const { model: start, dwell } = startingPoint(baseOf(mode), mode, index, seed);
       if (k < done.length) {
         restarts.push(done[k].record);

@@ -5,9 +5,6 @@ import { fitModel, DEFAULT_FIT_OPTIONS } from '../../src/fit/fit-model.js';
 import type { LoopRecord } from '../../src/fit/fit-record.js';
 import type { TransitionMode } from '../../src/model/hmm-model.js';
 import { misspecifiedBuilding, MISSPECIFIED_SPECS } from '../../bench/misspecified-building.js';
-import { tiedCentre } from '../../src/fit/tied-centre.js';
-import { equalSplitTransitions } from '../../src/model/equal-split-transitions.js';
-import { expectClose } from '../helpers/close.js';
 
 const loop = (mode: TransitionMode, held: number): LoopRecord => ({
   seed: 1, iterations: 1, stopReason: 'converged', history: [-2, -1.5], trainLogLikPerReading: -1.5, heldOutLogLikPerReading: held, startDwell: 0.5, mode,
@@ -77,21 +74,5 @@ describe('--transitions auto end to end (invented building with per-cell dwells 
     const { record } = await fitModel(input, { ...DEFAULT_FIT_OPTIONS, transitions: 'per-cell', restarts: 2, maxIter: 40 }, 1);
     expect(record.restarts).toHaveLength(2);
     expect(record.restarts.every((r) => r.mode === undefined)).toBe(true);
-  });
-});
-
-describe('tiedCentre (prior centre of per-cell and learned inside auto)', () => {
-  it("is the dwell of the tied restart the selection would keep, with the rest split equally; null without tied restarts", () => {
-    const b = misspecifiedBuilding(MISSPECIFIED_SPECS.test, 3);
-    const s = b.truth.structure;
-    const modelWith = (d: number) => ({ ...b.truth, trans: equalSplitTransitions(s, d) });
-    const modes: TransitionMode[] = ['fixed', 'tied', 'tied', 'per-cell'];
-    const restarts = [loop('fixed', -1.0), loop('tied', -1.2), loop('tied', -1.1), loop('per-cell', -1.0)];
-    const models = [modelWith(0.5), modelWith(0.62), modelWith(0.71), modelWith(0.3)];
-    const centre = tiedCentre(modes, restarts, models, true)!;
-    // The second tied restart has the better held-out score: its dwell 0.71 is the centre.
-    for (let i = 0; i < s.nCells; i++) expectClose(centre[s.dwellPos[i]], s.succPtr[i + 1] - s.succPtr[i] > 1 ? 0.71 : 1, { abs: 1e-15 }, `dwell of cell ${i}`);
-    expect(Array.from(centre)).toEqual(Array.from(equalSplitTransitions(s, 0.71)));
-    expect(tiedCentre(['fixed', 'learned'], [loop('fixed', -1), loop('learned', -1)], [models[0], models[3]], true)).toBeNull();
   });
 });
