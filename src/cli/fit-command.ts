@@ -25,7 +25,7 @@ export function registerFit(program: Command, io: CliIo): void {
     .option('--hit <p>', 'prior probability that a cell reads as its surveyed surface', '0.8')
     .option('--prior-strength <w>', 'pseudo-readings per cell behind the survey prior (0 = maximum likelihood)', '10')
     .option('--transition-prior-strength <w>', 'pseudo-transitions per cell behind the per-cell and learned transition priors, centred on --dwell with links equal (0 = maximum likelihood)', '20')
-    .option('--max-iter <n>', 'most EM iterations per restart', '200')
+    .option('--max-iter <n>', 'most EM iterations per restart', '1000')
     .option('--tol <x>', 'relative change of log-likelihood per reading that counts as converged', '1e-6')
     .option('--prune <eps>', 'pruned E-step: drop at each step the least likely cells, at most this share of the forward mass (0 = exact; e.g. 1e-6)')
     .option('--workers <n>', 'threads for the E-step, the main one included (default: the number of cores)')

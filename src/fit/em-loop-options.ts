@@ -17,4 +17,11 @@ export interface EmLoopOptions {
    * bound. @default 0
    */
   decreaseSlack?: number;
+  /**
+   * Also require the gain still to come, projected from the last three objectives (Aitken, see
+   * `converged`), to be below `tol`: for EM that creeps along flat directions (the look-alike cells'
+   * dwells and link splits of `per-cell` and `learned`), where a small change per iteration does not
+   * mean the fit has stopped moving. @default false
+   */
+  projected?: boolean;
 }

@@ -9,6 +9,7 @@ import type { EStepEngine } from './e-step-engine.js';
 import type { PackedRuns } from './packed-runs.js';
 import type { StopReason } from './fit-record.js';
 import { reduceBlocks } from './reduce-blocks.js';
+import { emConverged } from './em-converged.js';
 
 export type { EmLoopOptions } from './em-loop-options.js';
 import type { EmLoopOptions } from './em-loop-options.js';
@@ -51,7 +52,7 @@ const DECREASE_TOLERANCE = 1e-9;
  * The EM loop, in the order init → E-step → bound → M-step → report → stop: at each iteration the
  * E-step over all blocks (reduced in block order) gives the objective (log-likelihood + emission and
  * transition log priors, `emObjective`) per reading of the current model; the loop stops when its relative change from the previous
- * iteration is below `tol` ("converged") or after `maxIter` M-steps ("max-iter"). A decrease beyond
+ * iteration is below `tol` (with `projected`, also the gain still to come: `emConverged`) ("converged") or after `maxIter` M-steps ("max-iter"). A decrease beyond
  * rounding stops the fit with an error: EM cannot decrease its objective, so it means a defect.
  */
 export async function runEm(
@@ -83,7 +84,7 @@ export async function runEm(
           `EM iteration ${iterations}: the objective must not decrease, got ${previous} → ${perReading} per reading; this is a defect, please report it with the inputs`,
         );
       }
-      if (Math.abs(perReading - previous) <= options.tol * Math.abs(previous) + 1e-15) {
+      if (emConverged(history, options.tol, options.projected === true)) {
         return { model, iterations, stopReason: 'converged', history, logLikPerReading: counts.logLik / Math.max(1, counts.nReadings), counts };
       }
     }
@@ -98,3 +99,4 @@ export async function runEm(
     if (signal?.aborted) throw new InterruptedError('the fit was interrupted', signal.reason === 'SIGTERM' ? 'SIGTERM' : 'SIGINT');
   }
 }
+

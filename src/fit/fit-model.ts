@@ -81,7 +81,7 @@ export const DEFAULT_FIT_OPTIONS: FitOptions = {
   hit: 0.8,
   priorStrength: 10,
   transitionPriorStrength: DEFAULT_TRANSITION_PRIOR_STRENGTH,
-  maxIter: 200,
+  maxIter: 1000,
   tol: 1e-6,
   finalPass: true,
   blockSize: 8,
@@ -141,7 +141,7 @@ export async function fitModel(
   const pruneSlack = prune > 0 ? { decreaseSlack: -2 * Math.log1p(-prune) * totalSteps } : {};
   const loopOptionsOf = (mode: TransitionMode): EmLoopOptions =>
     mode === 'per-cell' || mode === 'learned'
-      ? { mode, priorStrength: o.priorStrength, prior, maxIter: o.maxIter, tol: o.tol, transitionPriorStrength: o.transitionPriorStrength ?? 0, transitionCentre: centre, ...pruneSlack }
+      ? { mode, priorStrength: o.priorStrength, prior, maxIter: o.maxIter, tol: o.tol, transitionPriorStrength: o.transitionPriorStrength ?? 0, transitionCentre: centre, projected: true, ...pruneSlack }
       : { mode, priorStrength: o.priorStrength, prior, maxIter: o.maxIter, tol: o.tol, ...pruneSlack };
   const fitBlocks = toBlocks(split.fit, o.blockSize);
   const heldBlocks = toBlocks(split.heldOut, o.blockSize);
@@ -211,7 +211,9 @@ export async function fitModel(
     const selectedMode = plan[selected].mode;
     const loopOptions = loopOptionsOf(selectedMode);
     const heldObs = split.heldOut.map((r) => packed.obs.subarray(packed.offsets[r], packed.offsets[r + 1]));
-    const calibration = heldObs.length ? predictiveCalibration(models[selected], heldObs) : null;
+    // With odometry (and a model that uses it) each held-out run is forecast with its per-step transitions.
+    const heldMoves = useMovement ? split.heldOut.map((r) => runs[r].moves) : undefined;
+    const calibration = heldObs.length ? predictiveCalibration(models[selected], heldObs, undefined, heldMoves) : null;
     let model = models[selected];
     let finalPass: LoopRecord | null = null;
     let finalCounts: ExpectedCountsTable | null = null;

@@ -1,6 +1,7 @@
 import type { HmmModel } from '../model/hmm-model.js';
 import { chainFromModel } from '../model/chain-from-model.js';
 import { predictiveReliability } from '../kernels/predictive-reliability.js';
+import type { MoveSteps } from '../kernels/move-chain.js';
 
 export type { ReliabilityBin, PredictiveCalibration } from '../model/fit-record.js';
 import type { PredictiveCalibration, ReliabilityBin } from '../model/fit-record.js';
@@ -11,13 +12,20 @@ export const CALIBRATION_BINS = 10;
 /**
  * The reliability table of `model`'s one-step-ahead top reading forecasts over `runs` (see
  * `PredictiveCalibration`). Returns null when the runs hold no reading. A run impossible under the
- * model contributes its steps up to the impossible reading.
+ * model contributes its steps up to the impossible reading. When the model has movement parameters,
+ * a run with odometry (`moves[k]`) is forecast with its per-step transitions, as the fit and the
+ * decoder use them; runs without (or a model without movement) use the plain transitions.
  */
-export function predictiveCalibration(model: HmmModel, runs: ReadonlyArray<Int32Array>, nBins = CALIBRATION_BINS): PredictiveCalibration | null {
+export function predictiveCalibration(
+  model: HmmModel,
+  runs: ReadonlyArray<Int32Array>,
+  nBins = CALIBRATION_BINS,
+  moves?: ReadonlyArray<MoveSteps | undefined>,
+): PredictiveCalibration | null {
   const chain = chainFromModel(model);
   const work = new Float64Array(2 * chain.nCells + chain.nReadings);
   const sums = new Float64Array(3 * nBins);
-  for (const obs of runs) predictiveReliability(chain, obs, obs.length, nBins, work, sums);
+  runs.forEach((obs, k) => predictiveReliability(chain, obs, obs.length, nBins, work, sums, model.movement ? moves?.[k] : undefined));
   return calibrationFromSums(sums, nBins);
 }
 

@@ -1,4 +1,5 @@
 import type { SparseChain } from './sparse-chain.js';
+import type { MoveSteps } from './move-chain.js';
 
 /**
  * One-step-ahead reading forecasts of one run, binned for a reliability table. From the forward
@@ -12,6 +13,10 @@ import type { SparseChain } from './sparse-chain.js';
  * nReadings entries. Returns log P(readings) of the run, or −Infinity when a reading is impossible
  * (the steps before it are binned, the rest not). Cost O(nSteps · (nnz + nCells · nReadings)); no
  * allocation.
+ *
+ * With `steps` (the run's odometry) and a chain with movement tables (`chain.move`), the prediction
+ * uses the per-step transitions A_t of `move-chain.ts` (the transition into step t + 1 from
+ * `dBin[t + 1]`, `hBin[t + 1]`), as the movement forward kernel does; otherwise the plain transitions.
  */
 export function predictiveReliability(
   chain: SparseChain,
@@ -20,8 +25,10 @@ export function predictiveReliability(
   nBins: number,
   work: Float64Array,
   bins: Float64Array,
+  steps?: MoveSteps,
 ): number {
   const { nCells: n, nReadings: m, start, predPtr, predIdx, predProb, emitT } = chain;
+  const move = steps ? chain.move : undefined;
   const pred = work.subarray(0, n);
   const filt = work.subarray(n, 2 * n);
   const q = work.subarray(2 * n, 2 * n + m);
@@ -56,7 +63,26 @@ export function predictiveReliability(
     logP += Math.log(sum);
     const c = 1 / sum;
     for (let j = 0; j < n; j++) filt[j] *= c;
-    if (t + 1 < nSteps) {
+    if (t + 1 < nSteps && move) {
+      // Per-step transitions: pred(j) = s_j filt(j) + Σ_{i → j} (1 − s_i) split_h(i → j) filt(i);
+      // filt is overwritten with the moving mass (1 − s_i) filt(i), as `forwardMoveSegment` does.
+      const { dwell, inPtr, inIdx } = chain;
+      const { stayByDistance, eligible, splitIn, nHeadingBins } = move;
+      const db = steps!.dBin[t + 1];
+      const hb = steps!.hBin[t + 1];
+      const off = (hb < 0 ? nHeadingBins : hb) * inPtr[n];
+      const sd = db >= 0 ? stayByDistance[db] : 0;
+      for (let i = 0; i < n; i++) {
+        const st = db >= 0 && eligible[i] === 1 ? sd : dwell[i];
+        pred[i] = st * filt[i];
+        filt[i] = (1 - st) * filt[i];
+      }
+      for (let j = 0; j < n; j++) {
+        let acc = pred[j];
+        for (let p = inPtr[j]; p < inPtr[j + 1]; p++) acc += filt[inIdx[p]] * splitIn[off + p];
+        pred[j] = acc;
+      }
+    } else if (t + 1 < nSteps) {
       for (let j = 0; j < n; j++) {
         let acc = 0;
         for (let k = predPtr[j]; k < predPtr[j + 1]; k++) acc += filt[predIdx[k]] * predProb[k];

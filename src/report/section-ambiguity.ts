@@ -22,9 +22,9 @@ const LIKELY_P_NOTE =
   '<p><code>likely_p</code> and <code>path_p</code> in the annotated table are posterior probabilities <em>under this model</em>, and so is every figure above: ' +
   'the simulated runs come from the fitted model itself, so this section shows what the model believes about its own ambiguity, not whether the model is right. ' +
   'Measured against known positions on underfoot\'s own simulated buildings whose true movement the model does not share (each cell its own dwell, unequal links): ' +
-  'where neighbouring cells read differently, the default fit\'s <code>likely_p</code> had an expected calibration error of 0.016, i.e. on average within about 2 points of how often it was right, ' +
-  'while fits with one building-wide dwell were overconfident (error 0.046–0.098); where rooms of 2 × 2 cells share one surface, every fit was overconfident about the exact cell ' +
-  '(error 0.047–0.084) while the cell within 1.5 m was right 85–88 % of the time. ' +
+  'where neighbouring cells read differently, the default fit\'s <code>likely_p</code> had an expected calibration error of 0.018, i.e. on average within about 2 points of how often it was right, ' +
+  'while fits with one building-wide dwell were overconfident (error 0.046–0.108); where rooms of 2 × 2 cells share one surface, every fit was overconfident about the exact cell ' +
+  '(error 0.047–0.096) while the cell within 1.5 m was right 85–88 % of the time. ' +
   'Treat hatched cells\' positions at room level.</p>';
 
 /**

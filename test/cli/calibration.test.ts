@@ -46,12 +46,13 @@ function scoreAnnotated(csv: string): { ece: number; exact: number } {
 }
 
 describe('calibration on a building the default movement model does not describe', () => {
-  // Target of issue 18: ECE ≤ 0.04 (met: 0.021 measured) and exact-cell accuracy within 2 points of the
-  // true model's (NOT met: 0.619 vs 0.646 measured, 2.7 points). The gap is a local optimum, not the
-  // transition model: the default fit swaps two look-alike cells (same surface, adjacent); EM started
-  // from the truth keeps them apart and lands within 0.5 points (measured with 260 runs; DEVELOPERS.md,
-  // "Calibration"). The test holds the measured 3 points so that a regression shows.
-  it('with the default options likely_p is calibrated (ECE ≤ 0.04) and exact-cell accuracy is within 3 points of the true model', () => {
+  // Issue 18 asks for ECE ≤ 0.04 (met: 0.027 measured) and exact-cell accuracy within 2 points of the
+  // true model's — NOT met: 0.626 vs 0.646 measured, 2.0 points (2.7 before `per-cell`/`learned` ran
+  // to the projected convergence rule, em-converged.ts). The rest is estimation error at this data
+  // size, not where EM stops or a local optimum: a fit started from the true model and run to 1e-9
+  // ends at the same point (DEVELOPERS.md, "Calibration"). The test holds 2.5 points so that a
+  // regression shows.
+  it('with the default options likely_p is calibrated (ECE ≤ 0.04) and exact-cell accuracy is within 2.5 points of the true model', () => {
     const fit = runCli(['fit', '--floor', p('floor.json'), '--runs', p('runs.csv'), '--out', p('model.json'), '--workers', '1']);
     expect(fit.code, fit.stderr).toBe(0);
     expect(fit.stdout).toMatch(/forecast calibration on the held-out runs/);
@@ -64,8 +65,8 @@ describe('calibration on a building the default movement model does not describe
     // eslint-disable-next-line no-console
     console.log(`likely_p ECE ${fitted.ece.toFixed(4)} (true model ${truth.ece.toFixed(4)}); exact ${fitted.exact.toFixed(4)} vs ${truth.exact.toFixed(4)}`);
     expect(fitted.ece).toBeLessThanOrEqual(0.04);
-    expect(fitted.exact).toBeGreaterThanOrEqual(truth.exact - 0.03);
-  });
+    expect(fitted.exact).toBeGreaterThanOrEqual(truth.exact - 0.025);
+  }, 600_000);
 
   it('learned (with its prior) no longer loses held-out likelihood to tied on the same data', () => {
     const record = parseModel(readFileSync(p('model.json'), 'utf8'), 'model.json').fit!;
