@@ -8,7 +8,8 @@ type Value = string | number | bigint | boolean | null;
 
 /**
  * Encodes a table as Parquet bytes (hyparquet-writer, SNAPPY pages, one row group per 2^20 rows). Column
- * types follow `tableToArrowBytes`: `utf8` → STRING, `float64` → DOUBLE, `int32` → INT32; `passthrough`
+ * types follow `tableToArrowBytes`: `utf8` → STRING, `dictionary` → STRING in RLE_DICTIONARY pages,
+ * `float64` → DOUBLE, `int32` → INT32, `int64` → INT64; `passthrough`
  * keeps an Arrow integer (INT32 up to 32 bits, else INT64), float (DOUBLE) or boolean type, else follows
  * the values (all numbers → DOUBLE, bigints → INT64, booleans → BOOLEAN, anything else → STRING of the
  * values' text). All columns are optional (nulls allowed). `metadata` becomes the file's key-value metadata.
@@ -22,7 +23,8 @@ export function tableToParquetBytes(table: OutputTable, where = 'output table', 
       const v = column.get(row);
       data[row] = v === null ? null : convert(v, type);
     }
-    return { name: column.name, data, type, nullable: true };
+    // Dictionary columns are always written with RLE_DICTIONARY pages (hyparquet-writer otherwise decides by size).
+    return { name: column.name, data, type, nullable: true, ...(column.kind === 'dictionary' ? { encoding: 'RLE_DICTIONARY' as const } : {}) };
   });
   const buffer = parquetWriteBuffer({
     columnData,
@@ -33,7 +35,8 @@ export function tableToParquetBytes(table: OutputTable, where = 'output table', 
 }
 
 function typeOf(column: OutputColumn, nRows: number): BasicType {
-  if (column.kind === 'utf8') return 'STRING';
+  if (column.kind === 'utf8' || column.kind === 'dictionary') return 'STRING';
+  if (column.kind === 'int64') return 'INT64';
   if (column.kind === 'float64') return 'DOUBLE';
   if (column.kind === 'int32') return 'INT32';
   const t = column.arrowType;
