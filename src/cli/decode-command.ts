@@ -1,7 +1,7 @@
 import type { Command } from 'commander';
 import { decodeFromFiles, type DecodeConfig, type DecodeOutcome } from '../pipeline/decode-from-files.js';
 import { DEFAULT_THRESHOLDS } from '../pipeline/cli-surface.js';
-import { addKeyColumnOptions, addOutputOptions, keyColumnsFrom, numberOption } from './common-options.js';
+import { addCompressionOption, addKeyColumnOptions, addOutputOptions, keyColumnsFrom, numberOption } from './common-options.js';
 import type { CliIo } from './cli-io.js';
 import { SAFETY_NOTE } from './safety-note.js';
 
@@ -25,6 +25,7 @@ export function registerDecode(program: Command, io: CliIo): void {
         'known positions.',
     );
   addKeyColumnOptions(cmd);
+  addCompressionOption(cmd);
   addOutputOptions(cmd);
   cmd.action(async (opts: Record<string, unknown>) => {
     const config = decodeConfig(opts);

@@ -1,5 +1,6 @@
 import {
   Bool,
+  type CompressionType,
   type Data,
   DataType,
   Dictionary,
@@ -20,6 +21,7 @@ import {
 } from 'apache-arrow';
 import { WorkError, quote } from '../errors.js';
 import { checkOutputTable } from './check-output-table.js';
+import { compressedTableToIPC } from './compressed-ipc-writer.js';
 import type { OutputColumn, OutputTable } from './output-table.js';
 
 type Value = string | number | bigint | boolean | null;
@@ -33,7 +35,13 @@ type Value = string | number | bigint | boolean | null;
  * otherwise the type follows the values: all numbers → Float64, all bigints → Int64, all booleans →
  * Bool, anything else (text, mixed) → Utf8 of the values' text.
  */
-export function tableToArrowBytes(table: OutputTable, stream: boolean, where = 'output table'): Uint8Array {
+export function tableToArrowBytes(
+  table: OutputTable,
+  stream: boolean,
+  where = 'output table',
+  /** Body compression (its encoder registered first: `registerArrowEncoder`); null = none. */
+  compression: CompressionType | null = null,
+): Uint8Array {
   checkOutputTable(table, where);
   const fields: Field[] = [];
   const children: Data[] = [];
@@ -47,7 +55,8 @@ export function tableToArrowBytes(table: OutputTable, stream: boolean, where = '
     schema,
     makeData({ type: new Struct(fields), length: table.nRows, nullCount: 0, children }),
   );
-  return tableToIPC(new Table(schema, [batch]), stream ? 'stream' : 'file');
+  const out = new Table(schema, [batch]);
+  return compression === null ? tableToIPC(out, stream ? 'stream' : 'file') : compressedTableToIPC(out, stream, compression);
 }
 
 function columnData(column: OutputColumn, nRows: number, where: string): Data {

@@ -2,6 +2,7 @@ import { DataType } from 'apache-arrow';
 import { parquetWriteBuffer } from 'hyparquet-writer';
 import { checkOutputTable } from './check-output-table.js';
 import type { OutputColumn, OutputTable } from './output-table.js';
+import type { ZstdCompress } from './zstd-compressor.js';
 
 type BasicType = 'STRING' | 'INT32' | 'INT64' | 'DOUBLE' | 'BOOLEAN';
 type Value = string | number | bigint | boolean | null;
@@ -14,7 +15,13 @@ type Value = string | number | bigint | boolean | null;
  * the values (all numbers → DOUBLE, bigints → INT64, booleans → BOOLEAN, anything else → STRING of the
  * values' text). All columns are optional (nulls allowed). `metadata` becomes the file's key-value metadata.
  */
-export function tableToParquetBytes(table: OutputTable, where = 'output table', metadata: Record<string, string> = {}): Uint8Array {
+export function tableToParquetBytes(
+  table: OutputTable,
+  where = 'output table',
+  metadata: Record<string, string> = {},
+  /** A zstd compressor: pages compressed with ZSTD instead of SNAPPY (`loadZstdCompressor`). */
+  zstd?: ZstdCompress,
+): Uint8Array {
   checkOutputTable(table, where);
   const columnData = table.columns.map((column) => {
     const type = typeOf(column, table.nRows);
@@ -29,6 +36,7 @@ export function tableToParquetBytes(table: OutputTable, where = 'output table', 
   const buffer = parquetWriteBuffer({
     columnData,
     rowGroupSize: 1 << 20,
+    ...(zstd ? { codec: 'ZSTD' as const, compressors: { ZSTD: zstd } } : {}),
     kvMetadata: Object.entries(metadata).map(([key, value]) => ({ key, value })),
   });
   return new Uint8Array(buffer);

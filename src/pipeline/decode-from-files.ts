@@ -3,7 +3,7 @@ import { readModel } from '../io/read-model.js';
 import { readFloor } from '../io/read-floor.js';
 import { writeTable } from '../io/write-table.js';
 import { planOutputs } from '../io/plan-outputs.js';
-import { tableFormatOf } from '../io/table-format-of.js';
+import { outputTableFormatOf } from '../io/table-compression.js';
 import type { ModelFile } from '../io/model-file.js';
 import { checkModelFloor } from '../model/check-model-floor.js';
 import { withFloorZones } from '../model/with-floor-zones.js';
@@ -40,8 +40,8 @@ export interface DecodeOutcome {
 /** `decode`: reads a model and runs, decodes every run, writes the annotated table and run summary atomically. */
 export async function decodeFromFiles(config: DecodeConfig, preloaded?: ModelFile, skipAnnotated = false): Promise<DecodeOutcome> {
   // Every output's format and location is checked before anything is read.
-  if (!skipAnnotated) tableFormatOf(config.out);
-  if (config.summary) tableFormatOf(config.summary);
+  if (!skipAnnotated) outputTableFormatOf(config.out);
+  if (config.summary) outputTableFormatOf(config.summary);
   await planOutputs(
     'decode',
     [{ path: config.model, what: '--model' }, { path: config.floor, what: '--floor' }, ...config.runs.map((r) => ({ path: r, what: '--runs' }))],
