@@ -11,7 +11,7 @@ export function registerDecode(program: Command, io: CliIo): void {
     .description('decode runs: most likely path (Viterbi) and per-step posteriors, as an annotated table')
     .requiredOption('--model <file>', 'model file')
     .requiredOption('--runs <files...>', 'runs tables')
-    .requiredOption('--out <file>', 'annotated table to write (.csv, .arrow, .arrows)')
+    .requiredOption('--out <file>', 'annotated table to write (.csv, .arrow, .arrows, .parquet, .geojson)')
     .option('--summary <file>', 'run summary table to write')
     .option('--floor <file>', 'floor file to check the model against')
     .option('--low-confidence <p>', 'flag steps whose path cell has posterior below this', String(DEFAULT_THRESHOLDS.lowConfidence))
