@@ -1,6 +1,11 @@
 /**
- * underfoot as a library. Entry points: build a model from a floor, score runs, decode a run, run one
- * EM iteration over many runs, or the whole multi-restart fit; read and write the files.
+ * underfoot as a library (`import { … } from 'underfoot'`; README.md, "Using it from code"). The main
+ * operations, file to file as the commands do them: `fitFromFiles`, `decodeFromFiles`,
+ * `compareFromFiles`, `simulateToFile`, `runPipeline`. In memory: `readFloor`, `readRuns`, `buildModel`,
+ * `fitModel`, `decodeRuns` (annotated table and run summary of many runs), `decodeRun` (one run),
+ * `compareCells`; tables out with `writeTable` (CSV, Arrow, Parquet by extension; zstd/LZ4), `writeGeoJson`,
+ * or as bytes (`tableToArrowBytes`, `tableToParquetBytes`, `tableToCsv`). Lower down: the kernels,
+ * one EM iteration, the movement model.
  */
 export type { FloorGraph, FloorCell, FloorLink, Georeference } from './model/floor-graph.js';
 export type { HmmModel, TransitionMode, TransitionStructure, ModelCell } from './model/hmm-model.js';
@@ -54,3 +59,29 @@ export { formatModel } from './io/format-model.js';
 export { writeTable } from './io/write-table.js';
 export type { RunsTable, RunSequence } from './io/runs-table.js';
 export { InputError, WorkError } from './errors.js';
+
+// File-to-file operations (what the commands run), with their typed configurations and outcomes.
+export { fitFromFiles, type FitConfig, type FitOutcome } from './pipeline/fit-from-files.js';
+export { decodeFromFiles, SAFETY_CAUTION, type DecodeConfig, type DecodeOutcome } from './pipeline/decode-from-files.js';
+export { compareFromFiles, changesTable, type CompareConfig, type CompareOutcome, type CompareProgress, type RunShift } from './pipeline/compare-from-files.js';
+export { simulateToFile, type SimulateConfig, type SimulateOutcome } from './pipeline/simulate-to-file.js';
+export { runPipeline, type PipelineOutcome } from './pipeline/run-pipeline.js';
+export { DEFAULT_KEY_COLUMNS, type KeyColumns } from './pipeline/key-columns.js';
+export { loadRuns, type LoadedRuns } from './pipeline/load-runs.js';
+export { DEFAULT_THRESHOLDS, type DecodeThresholds } from './decode/decode-thresholds.js';
+export { decodeRuns, FLAG_COLUMNS, type DecodedTables } from './pipeline/decode-runs.js';
+export { compareCells, type CellChange, type CellVerdict, type RegionChange, type CompareOptions, type CellComparison } from './compare/compare-cells.js';
+
+// Tables out: the annotated table, run summary and changes table are `OutputTable`s.
+export type { OutputTable, OutputColumn } from './io/output-table.js';
+export type { ReadRunsOptions, InputColumn } from './io/runs-table.js';
+export type { ModelFile } from './io/model-file.js';
+export { tableToArrowBytes } from './io/table-to-arrow-bytes.js';
+export { tableToParquetBytes } from './io/table-to-parquet-bytes.js';
+export { tableToCsv } from './io/table-to-csv.js';
+export { geoJsonChunks, type GeoJsonOptions } from './io/table-to-geojson.js';
+export { writeGeoJson, isGeoJsonPath } from './io/write-geojson.js';
+export type { TableCompression } from './io/table-compression.js';
+export { registerArrowCodecs, registerArrowEncoder } from './io/arrow-codecs.js';
+export { loadZstdCompressor, type ZstdCompress } from './io/zstd-compressor.js';
+export { floorToWgs84 } from './model/floor-to-wgs84.js';

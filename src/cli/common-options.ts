@@ -1,7 +1,7 @@
 import type { Command } from 'commander';
 import { DEFAULT_KEY_COLUMNS, type KeyColumns } from '../pipeline/key-columns.js';
 import { InputError, quote } from '../errors.js';
-import { parsePeriod, setStdioTableFormat } from '../pipeline/table-options.js';
+import { parsePeriod, setStdioTableFormat, setTableCompression } from '../pipeline/table-options.js';
 
 /** Adds the runs-table column options shared by commands that read runs. */
 export function addKeyColumnOptions(cmd: Command, movement = true): Command {
@@ -23,6 +23,7 @@ export function keyColumnsFrom(opts: Record<string, unknown>, where: string): Ke
   const mode = opts.unknownReadings;
   if (mode !== 'error' && mode !== 'dropout') throw new InputError(`${where}: --unknown-readings must be "error" or "dropout", got ${quote(mode)}`);
   setStdioTableFormat(typeof opts.format === 'string' ? opts.format : null, where);
+  setTableCompression(typeof opts.compression === 'string' ? opts.compression : null, where);
   const keys: KeyColumns = { runCol: String(opts.runCol), stepCol: String(opts.stepCol), readingCol: String(opts.readingCol), unknownReadings: mode };
   if (typeof opts.movedCol === 'string') keys.movedCol = opts.movedCol;
   if (typeof opts.headingCol === 'string') keys.headingCol = opts.headingCol;
@@ -34,6 +35,11 @@ export function keyColumnsFrom(opts: Record<string, unknown>, where: string): Ke
     keys.period = period;
   }
   return keys;
+}
+
+/** Adds --compression, for commands that write tables (read by `keyColumnsFrom`, or `setTableCompression`). */
+export function addCompressionOption(cmd: Command): Command {
+  return cmd.option('--compression <codec>', 'compress Arrow outputs (zstd or lz4) or Parquet outputs (zstd); none = uncompressed', 'none');
 }
 
 /** Adds --quiet, --json and --debug. */

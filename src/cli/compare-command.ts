@@ -2,7 +2,7 @@ import type { Command } from 'commander';
 import type { CompareConfig, CompareOutcome } from '../pipeline/compare-from-files.js';
 import { DEFAULT_NULL_DRAWS, resolveCompareOptions } from '../pipeline/resolve-compare-options.js';
 import { DEFAULT_REFIT_SEARCH } from '../pipeline/cli-surface.js';
-import { addKeyColumnOptions, addOutputOptions, keyColumnsFrom } from './common-options.js';
+import { addCompressionOption, addKeyColumnOptions, addOutputOptions, keyColumnsFrom } from './common-options.js';
 import type { CliIo } from './cli-io.js';
 import { compareProgress } from './progress.js';
 import { formatTable } from './format-table.js';
@@ -33,6 +33,7 @@ export function registerCompare(program: Command, io: CliIo): void {
     .option('--seed <s>', 'seed of the null draws', '1')
     .option('--workers <n>', 'threads for the E-step, the main one included (default: the number of cores)');
   addKeyColumnOptions(cmd);
+  addCompressionOption(cmd);
   addOutputOptions(cmd);
   cmd.action(async (opts: Record<string, unknown>) => {
     const config = compareConfig(opts);

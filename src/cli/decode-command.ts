@@ -2,7 +2,7 @@ import type { Command } from 'commander';
 import { decodeFromFiles, type DecodeConfig, type DecodeOutcome } from '../pipeline/decode-from-files.js';
 import { DEFAULT_THRESHOLDS } from '../pipeline/cli-surface.js';
 import { resolveDecodeOptions } from '../pipeline/resolve-decode-options.js';
-import { addKeyColumnOptions, addOutputOptions, keyColumnsFrom } from './common-options.js';
+import { addCompressionOption, addKeyColumnOptions, addOutputOptions, keyColumnsFrom } from './common-options.js';
 import type { CliIo } from './cli-io.js';
 import { SAFETY_NOTE } from './safety-note.js';
 
@@ -12,7 +12,7 @@ export function registerDecode(program: Command, io: CliIo): void {
     .description('decode runs: most likely path (Viterbi) and per-step posteriors, as an annotated table')
     .requiredOption('--model <file>', 'model file')
     .requiredOption('--runs <files...>', 'runs tables')
-    .requiredOption('--out <file>', 'annotated table to write (.csv, .arrow, .arrows)')
+    .requiredOption('--out <file>', 'annotated table to write (.csv, .arrow, .arrows, .parquet, .geojson)')
     .option('--summary <file>', 'run summary table to write')
     .option('--floor <file>', 'floor file to check the model against')
     .option('--low-confidence <p>', 'flag steps whose path cell has posterior below this', String(DEFAULT_THRESHOLDS.lowConfidence))
@@ -26,6 +26,7 @@ export function registerDecode(program: Command, io: CliIo): void {
         'known positions.',
     );
   addKeyColumnOptions(cmd);
+  addCompressionOption(cmd);
   addOutputOptions(cmd);
   cmd.action(async (opts: Record<string, unknown>) => {
     const config = decodeConfig(opts);

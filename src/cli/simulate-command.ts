@@ -1,8 +1,8 @@
 import { InputError } from '../errors.js';
 import type { Command } from 'commander';
 import { simulateToFile, type SimulateConfig } from '../pipeline/simulate-to-file.js';
-import { addOutputOptions, numberOption } from './common-options.js';
-import { setStdioTableFormat } from '../pipeline/table-options.js';
+import { addCompressionOption, addOutputOptions, numberOption } from './common-options.js';
+import { setStdioTableFormat, setTableCompression } from '../pipeline/table-options.js';
 import type { CliIo } from './cli-io.js';
 
 export function registerSimulate(program: Command, io: CliIo): void {
@@ -23,6 +23,7 @@ export function registerSimulate(program: Command, io: CliIo): void {
     .option('--moved-col <name>', 'name of the odometry distance column', 'moved')
     .option('--heading-col <name>', 'name of the odometry heading column', 'heading')
     .option('--format <name>', 'format of the table written to standard output (--out -): csv, arrow, arrows');
+  addCompressionOption(cmd);
   addOutputOptions(cmd);
   cmd.action(async (opts: Record<string, unknown>) => {
     const config = simulateConfig(opts);
@@ -39,6 +40,7 @@ export const MAX_SIMULATED_ROWS = 100_000_000;
 export function simulateConfig(opts: Record<string, unknown>): SimulateConfig {
   const w = 'simulate';
   setStdioTableFormat(typeof opts.format === 'string' ? opts.format : null, w);
+  setTableCompression(typeof opts.compression === 'string' ? opts.compression : null, w);
   const int = (k: string, flag: string, min: number, max: number) =>
     numberOption(opts[k], w, flag, (x) => Number.isInteger(x) && x >= min && x <= max, `a whole number from ${min} to ${max}`);
   const prob = (k: string, flag: string, ok: (x: number) => boolean, req: string) => numberOption(opts[k], w, flag, ok, req);

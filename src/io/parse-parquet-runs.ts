@@ -1,4 +1,5 @@
 import { parquetMetadata, parquetRead } from 'hyparquet';
+import { decompress as zstdDecompress } from 'fzstd';
 import { InputError, quote } from '../errors.js';
 import { buildRunsTable } from './build-runs-table.js';
 import { MAX_TABLE_COLUMNS } from './parse-csv.js';
@@ -8,7 +9,7 @@ import type { InputColumn, ReadRunsOptions, RunsTable } from './runs-table.js';
 type ParquetValue = string | number | bigint | boolean | Date | null | undefined | object;
 
 /**
- * Reads a runs table from Parquet bytes (hyparquet; SNAPPY or uncompressed pages — the pyarrow default is
+ * Reads a runs table from Parquet bytes (hyparquet; SNAPPY, zstd or uncompressed pages — the pyarrow default is
  * SNAPPY). Columns are decoded whole (flat columns only); text stays text, integers and floats numbers,
  * 64-bit integers bigints, timestamps `Date`s (usable with `--time-col`; refused as a plain step column).
  * Messages locate rows as `row N`, counting data rows from 1.
@@ -30,6 +31,8 @@ export async function runsFromParquet(bytes: Uint8Array, source: string, options
     await parquetRead({
       file,
       metadata,
+      // zstd pages (pandas/pyarrow `compression="zstd"`, underfoot's own `--compression zstd`) via fzstd.
+      compressors: { ZSTD: (input: Uint8Array) => zstdDecompress(input) },
       onChunk: (chunk) => {
         const parts = data.get(chunk.columnName);
         if (parts) parts[chunk.rowStart] = Array.from(chunk.columnData as ArrayLike<ParquetValue>);
@@ -38,7 +41,7 @@ export async function runsFromParquet(bytes: Uint8Array, source: string, options
   } catch (err) {
     if (err instanceof InputError) throw err;
     const why = String((err as Error).message).replace(/\s+/g, ' ');
-    throw new InputError(`${source}: file must be Parquet (SNAPPY or uncompressed), got unreadable data (${why})`);
+    throw new InputError(`${source}: file must be Parquet (SNAPPY, zstd or uncompressed), got unreadable data (${why})`);
   }
   const values = new Map<string, ParquetValue[]>();
   for (const [name, parts] of data) values.set(name, parts.filter((p) => p !== undefined).flat());

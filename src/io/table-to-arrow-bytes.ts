@@ -1,13 +1,16 @@
 import {
   Bool,
+  type CompressionType,
   type Data,
   DataType,
+  Dictionary,
   Field,
   Float64,
   Int32,
   Int64,
   makeBuilder,
   makeData,
+  makeVector,
   Precision,
   RecordBatch,
   Schema,
@@ -18,18 +21,27 @@ import {
 } from 'apache-arrow';
 import { WorkError, quote } from '../errors.js';
 import { checkOutputTable } from './check-output-table.js';
+import { compressedTableToIPC } from './compressed-ipc-writer.js';
 import type { OutputColumn, OutputTable } from './output-table.js';
 
 type Value = string | number | bigint | boolean | null;
 
 /**
  * Encodes a table as Arrow IPC bytes, the file format or (`stream`) the stream format. Column types:
- * `utf8` → Utf8, `float64` → Float64, `int32` → Int32, all nullable. `passthrough` keeps the column's
+ * `utf8` → Utf8, `float64` → Float64, `int32` → Int32, `int64` → Int64, `dictionary` → Dictionary with
+ * Utf8 values and Int32 indices (the column's fixed dictionary, else its distinct values in order of first
+ * appearance), all nullable. `passthrough` keeps the column's
  * `arrowType` when it is an integer, float or boolean type; text types (LargeUtf8, dictionary) become Utf8;
  * otherwise the type follows the values: all numbers → Float64, all bigints → Int64, all booleans →
  * Bool, anything else (text, mixed) → Utf8 of the values' text.
  */
-export function tableToArrowBytes(table: OutputTable, stream: boolean, where = 'output table'): Uint8Array {
+export function tableToArrowBytes(
+  table: OutputTable,
+  stream: boolean,
+  where = 'output table',
+  /** Body compression (its encoder registered first: `registerArrowEncoder`); null = none. */
+  compression: CompressionType | null = null,
+): Uint8Array {
   checkOutputTable(table, where);
   const fields: Field[] = [];
   const children: Data[] = [];
@@ -43,7 +55,8 @@ export function tableToArrowBytes(table: OutputTable, stream: boolean, where = '
     schema,
     makeData({ type: new Struct(fields), length: table.nRows, nullCount: 0, children }),
   );
-  return tableToIPC(new Table(schema, [batch]), stream ? 'stream' : 'file');
+  const out = new Table(schema, [batch]);
+  return compression === null ? tableToIPC(out, stream ? 'stream' : 'file') : compressedTableToIPC(out, stream, compression);
 }
 
 function columnData(column: OutputColumn, nRows: number, where: string): Data {
@@ -54,6 +67,10 @@ function columnData(column: OutputColumn, nRows: number, where: string): Data {
       return float64Data(column, nRows, where);
     case 'int32':
       return int32Data(column, nRows, where);
+    case 'int64':
+      return int64Data(column, nRows, where);
+    case 'dictionary':
+      return dictionaryData(column, nRows, where);
     case 'passthrough':
       return passthroughData(column, nRows, where);
   }
@@ -147,6 +164,89 @@ function int32Data(column: OutputColumn, nRows: number, where: string): Data {
     validity[row >> 3] |= 1 << (row & 7);
   }
   return makeData({ type: new Int32(), length: nRows, nullCount, nullBitmap: nullCount > 0 ? validity : null, data: values }) as Data;
+}
+
+/**
+ * Int64 data written as two 32-bit halves (little-endian, as Arrow stores it) so no bigint is made per
+ * row; values are whole numbers within ±2^53, or bigints.
+ */
+function int64Data(column: OutputColumn, nRows: number, where: string): Data {
+  const values = new BigInt64Array(nRows);
+  const halves = new Int32Array(values.buffer);
+  const validity = newValidity(nRows);
+  let nullCount = 0;
+  for (let row = 0; row < nRows; row++) {
+    const v = column.get(row);
+    if (v === null || v === undefined) {
+      nullCount++;
+      continue;
+    }
+    if (typeof v === 'bigint') {
+      values[row] = v;
+    } else if (typeof v === 'number' && Number.isSafeInteger(v)) {
+      const high = Math.floor(v / 4294967296);
+      halves[2 * row] = v - high * 4294967296; // low 32 bits, taken modulo 2^32 by the Int32Array
+      halves[2 * row + 1] = high;
+    } else {
+      throw badValue(column, 'a whole number within ±2^53', v, row, where);
+    }
+    validity[row >> 3] |= 1 << (row & 7);
+  }
+  return makeData({ type: new Int64(), length: nRows, nullCount, nullBitmap: nullCount > 0 ? validity : null, data: values }) as Data;
+}
+
+/**
+ * Dictionary-encoded text: Int32 indices into a Utf8 dictionary. With the column's fixed `dictionary` and
+ * `code` the indices are taken as given; otherwise the dictionary is the distinct values in order of first
+ * appearance.
+ */
+function dictionaryData(column: OutputColumn, nRows: number, where: string): Data {
+  const codes = new Int32Array(nRows);
+  const validity = newValidity(nRows);
+  let nullCount = 0;
+  let values: readonly string[];
+  if (column.dictionary !== undefined && column.code !== undefined) {
+    values = column.dictionary;
+    for (let row = 0; row < nRows; row++) {
+      const c = column.code(row);
+      if (c < 0) {
+        nullCount++;
+        continue;
+      }
+      if (!(Number.isInteger(c) && c < values.length)) throw badValue(column, `a dictionary index below ${values.length}`, c, row, where);
+      codes[row] = c;
+      validity[row >> 3] |= 1 << (row & 7);
+    }
+  } else {
+    const index = new Map<string, number>();
+    const list: string[] = [];
+    for (let row = 0; row < nRows; row++) {
+      const v = column.get(row);
+      if (v === null || v === undefined) {
+        nullCount++;
+        continue;
+      }
+      const text = typeof v === 'string' ? v : String(v);
+      let c = index.get(text);
+      if (c === undefined) {
+        c = list.length;
+        list.push(text);
+        index.set(text, c);
+      }
+      codes[row] = c;
+      validity[row >> 3] |= 1 << (row & 7);
+    }
+    values = list;
+  }
+  const dictionary = makeVector(utf8Data({ name: column.name, kind: 'utf8', get: (i) => values[i] }, values.length, where) as Data<Utf8>);
+  return makeData<Dictionary<Utf8, Int32>>({
+    type: new Dictionary(new Utf8(), new Int32()),
+    length: nRows,
+    nullCount,
+    nullBitmap: nullCount > 0 ? validity : null,
+    data: codes,
+    dictionary,
+  }) as Data;
 }
 
 function badValue(column: OutputColumn, expected: string, value: Value, row: number, where: string): WorkError {

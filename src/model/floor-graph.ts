@@ -20,7 +20,7 @@ export interface FloorCell {
 
 /**
  * Where the floor's x/y frame sits on the Earth: the origin in WGS 84 degrees and the bearing of the
- * x axis in degrees clockwise from north. Kept with the floor; nothing uses it yet.
+ * x axis in degrees clockwise from north. Kept with the floor; `decode` uses it for GeoJSON output (`floorToWgs84`).
  */
 export interface Georeference {
   lat: number;

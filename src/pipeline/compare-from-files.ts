@@ -10,7 +10,7 @@ import { formatFloor } from '../io/format-floor.js';
 import { writeFileAtomic } from '../io/write-atomic.js';
 import { writeTable } from '../io/write-table.js';
 import { planOutputs } from '../io/plan-outputs.js';
-import { tableFormatOf } from '../io/table-format-of.js';
+import { outputTableFormatOf } from '../io/table-compression.js';
 import type { OutputTable } from '../io/output-table.js';
 import type { ModelFile } from '../io/model-file.js';
 import { checkModelFloor } from '../model/check-model-floor.js';
@@ -104,7 +104,7 @@ export interface CompareProgress extends RefitSearchProgress {
 }
 
 export async function compareFromFiles(config: CompareConfig, onProgress?: (p: CompareProgress) => void): Promise<CompareOutcome> {
-  if (config.out) tableFormatOf(config.out);
+  if (config.out) outputTableFormatOf(config.out);
   await planOutputs(
     'compare',
     [{ path: config.model, what: '--model' }, { path: config.floor, what: '--floor' }, ...config.runs.map((r) => ({ path: r, what: '--runs' }))],

@@ -3,7 +3,10 @@ import { readModel } from '../io/read-model.js';
 import { readFloor } from '../io/read-floor.js';
 import { writeTable } from '../io/write-table.js';
 import { planOutputs } from '../io/plan-outputs.js';
-import { tableFormatOf } from '../io/table-format-of.js';
+import { outputTableFormatOf, tableCompression } from '../io/table-compression.js';
+import { isGeoJsonPath, writeGeoJson } from '../io/write-geojson.js';
+import { floorToWgs84 } from '../model/floor-to-wgs84.js';
+import type { Georeference } from '../model/floor-graph.js';
 import type { ModelFile } from '../io/model-file.js';
 import { checkModelFloor } from '../model/check-model-floor.js';
 import { withFloorZones } from '../model/with-floor-zones.js';
@@ -40,16 +43,22 @@ export interface DecodeOutcome {
 /** `decode`: reads a model and runs, decodes every run, writes the annotated table and run summary atomically. */
 export async function decodeFromFiles(config: DecodeConfig, preloaded?: ModelFile, skipAnnotated = false): Promise<DecodeOutcome> {
   // Every output's format and location is checked before anything is read.
-  if (!skipAnnotated) tableFormatOf(config.out);
-  if (config.summary) tableFormatOf(config.summary);
+  const geo = !skipAnnotated && isGeoJsonPath(config.out);
+  if (geo && tableCompression() !== null) {
+    throw new InputError(`${config.out}: --compression must go with an Arrow (.arrow, .feather, .arrows) or Parquet output, got a GeoJSON output`);
+  }
+  if (!skipAnnotated && !geo) outputTableFormatOf(config.out);
+  if (config.summary) outputTableFormatOf(config.summary);
   await planOutputs(
     'decode',
     [{ path: config.model, what: '--model' }, { path: config.floor, what: '--floor' }, ...config.runs.map((r) => ({ path: r, what: '--runs' }))],
     [{ path: skipAnnotated ? null : config.out, what: '--out' }, { path: config.summary, what: '--summary' }],
   );
   let file = preloaded ?? (await readModel(config.model));
+  let georeference: Georeference | null = null;
   if (config.floor) {
     const floor = await readFloor(config.floor);
+    georeference = floor.georeference ?? null;
     checkModelFloor(file.model, config.model, floor, config.floor);
     file = { ...file, model: withFloorZones(file.model, floor) };
   }
@@ -89,7 +98,26 @@ export async function decodeFromFiles(config: DecodeConfig, preloaded?: ModelFil
   if (!metadata['underfoot.model_sha256']) delete metadata['underfoot.model_sha256'];
   decoded.annotated.metadata = { ...metadata, 'underfoot.table': 'annotated' };
   decoded.summary.metadata = { ...metadata, 'underfoot.table': 'run summary' };
-  if (!skipAnnotated) await writeTable(config.out, decoded.annotated);
+  if (geo) {
+    await writeGeoJson(config.out, decoded.annotated, {
+      xColumn: 'path_x',
+      yColumn: 'path_y',
+      toLonLat: georeference ? (x, y) => floorToWgs84(georeference, x, y) : null,
+      about: {
+        version: TOOL_VERSION,
+        ...(metadata['underfoot.model_sha256'] ? { model_sha256: metadata['underfoot.model_sha256'] } : {}),
+        thresholds: config.thresholds,
+        caution: SAFETY_CAUTION,
+        table: 'annotated',
+        georeference,
+      },
+    });
+    if (!georeference) {
+      warnings.push(
+        `${config.out}: coordinates are floor-frame metres, not WGS 84 longitude/latitude: ${config.floor ? `the floor ${config.floor} has no "georeference"` : 'give --floor with a "georeference" for WGS 84'}`,
+      );
+    }
+  } else if (!skipAnnotated) await writeTable(config.out, decoded.annotated);
   if (config.summary) await writeTable(config.summary, decoded.summary);
   return { decoded, warnings, nRuns: loaded.runs.length, nRows: decoded.annotated.nRows };
 }

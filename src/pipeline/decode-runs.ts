@@ -128,45 +128,48 @@ export function decodeRuns(
   });
   const ids = model.cells.map((c) => c.id);
   const num = (a: Float64Array) => (row: number) => (Number.isNaN(a[row]) ? null : a[row]);
-  const cell = (a: Int32Array) => (row: number) => (a[row] < 0 ? null : ids[a[row]]);
+  // Cell columns are dictionary-encoded over the model's cell ids (one dictionary for every file of a model).
+  const cell = (name: string, a: Int32Array): OutputColumn => ({
+    name,
+    kind: 'dictionary',
+    dictionary: ids,
+    code: (row) => a[row],
+    get: (row) => (a[row] < 0 ? null : ids[a[row]]),
+  });
+  // The step of every row as parsed (whole numbers within ±2^53): the step column is written from it as
+  // int64 whatever the input held (CSV text, any Arrow integer or float type, or steps mapped from --time-col).
+  const stepOf = new Float64Array(nRows);
+  let first = 0;
+  for (const table of tables) {
+    for (const run of table.runs) {
+      for (let t = 0; t < run.rows.length; t++) if (run.rows[t] >= 0) stepOf[first + run.rows[t]] = run.firstStep + t;
+    }
+    first += table.nRows;
+  }
+  const stepColumn = (name: string): OutputColumn => ({ name, kind: 'int64', get: (row) => stepOf[row] });
+  const timeCol = tables[0].timeCol;
+  const { runCol, readingCol } = tables[0];
   const inputColumns: OutputColumn[] = tables[0].columns.map((c, k): OutputColumn => {
     const get = tables.length === 1 ? (row: number) => c.get(row) : spanning(tables, k);
-    // The step column read from CSV is text; it was checked to be whole numbers, so Arrow output stores integers.
-    // Steps beyond the 32-bit range (e.g. millisecond timestamps used as steps) are stored as float64, exact to 2^53.
-    if (c.name === tables[0].stepCol && c.kind === 'utf8') {
-      let fits = true;
-      for (let row = 0; row < nRows && fits; row++) fits = Math.abs(Number(get(row))) <= 0x7fffffff;
-      return { name: c.name, kind: fits ? 'int32' : 'float64', get: (row) => Number(get(row)) };
-    }
+    if (timeCol === undefined && c.name === tables[0].stepCol) return stepColumn(c.name);
+    // Run ids and readings given as text are stored dictionary-encoded (few distinct values, many rows).
+    if ((c.name === runCol || c.name === readingCol) && c.kind === 'utf8') return { name: c.name, kind: 'dictionary', get };
     return { name: c.name, kind: 'passthrough', arrowType: c.arrowType, get };
   });
-  // Steps mapped from times (--time-col) are written as their own int32 column, named by --step-col.
-  const timeCol = tables[0].timeCol;
-  const stepColumns: OutputColumn[] = [];
-  if (timeCol !== undefined) {
-    const stepName = tables[0].stepCol;
-    const stepOf = new Int32Array(nRows).fill(-1);
-    let first = 0;
-    for (const table of tables) {
-      for (const run of table.runs) {
-        for (let t = 0; t < run.rows.length; t++) if (run.rows[t] >= 0) stepOf[first + run.rows[t]] = run.firstStep + t;
-      }
-      first += table.nRows;
-    }
-    stepColumns.push({ name: stepName, kind: 'int32', get: (row) => stepOf[row] });
-  }
+  // Steps mapped from times (--time-col) are written as their own column, named by --step-col.
+  const stepColumns: OutputColumn[] = timeCol === undefined ? [] : [stepColumn(tables[0].stepCol)];
   const annotated: OutputTable = {
     nRows,
     columns: [
       ...inputColumns,
       ...stepColumns,
-      { name: 'path_cell', kind: 'utf8', get: cell(pathCell) },
+      cell('path_cell', pathCell),
       { name: 'path_p', kind: 'float64', get: num(pathP) },
-      { name: 'likely_cell', kind: 'utf8', get: cell(likelyCell) },
+      cell('likely_cell', likelyCell),
       { name: 'likely_p', kind: 'float64', get: num(likelyP) },
       { name: 'entropy_bits', kind: 'float64', get: num(entropy) },
       { name: 'surprise_bits', kind: 'float64', get: num(surprise) },
-      { name: 'flag', kind: 'utf8', get: (row) => flagText(flags[row]) },
+      { name: 'flag', kind: 'dictionary', get: (row) => flagText(flags[row]) },
       ...positionColumns(model, layout, { pathCell, likelyZone, zoneP, meanLevel, meanX, meanY, spread }),
       // Each flag as its own boolean column (the `flag` text kept above), for tools that filter on booleans.
       // No `arrowType`: its values are all booleans, so Arrow and Parquet store it as Bool / BOOLEAN, and

@@ -28,8 +28,8 @@ export function positionColumns(model: HmmModel, layout: PositionLayout, r: Posi
   const ofPath = <V>(f: (i: number) => V) => (row: number): V | null => (r.pathCell[row] < 0 ? null : f(r.pathCell[row]));
   const none = (): null => null;
   return [
-    { name: 'path_zone', kind: 'utf8', get: hasZones ? ofPath((i) => cells[i].zone ?? null) : none },
-    { name: 'likely_zone', kind: 'utf8', get: hasZones ? (row) => zoneName(r.likelyZone[row]) : none },
+    { name: 'path_zone', kind: 'dictionary', get: hasZones ? ofPath((i) => cells[i].zone ?? null) : none },
+    { name: 'likely_zone', kind: 'dictionary', get: hasZones ? (row) => zoneName(r.likelyZone[row]) : none },
     { name: 'zone_p', kind: 'float64', get: hasZones ? num(r.zoneP) : none },
     { name: 'path_x', kind: 'float64', get: ofPath((i) => cells[i].x) },
     { name: 'path_y', kind: 'float64', get: ofPath((i) => cells[i].y) },

@@ -3,7 +3,7 @@ import { readFloor } from '../io/read-floor.js';
 import { readModel } from '../io/read-model.js';
 import { writeTable } from '../io/write-table.js';
 import { planOutputs } from '../io/plan-outputs.js';
-import { tableFormatOf } from '../io/table-format-of.js';
+import { outputTableFormatOf } from '../io/table-compression.js';
 import { buildModel } from '../model/build-model.js';
 import { checkModelFloor } from '../model/check-model-floor.js';
 import { sampleRun } from '../model/sample-run.js';
@@ -45,7 +45,7 @@ export interface SimulateOutcome {
  * inputs and seed give the same table.
  */
 export async function simulateToFile(config: SimulateConfig): Promise<SimulateOutcome> {
-  tableFormatOf(config.out);
+  outputTableFormatOf(config.out);
   await planOutputs('simulate', [{ path: config.floor, what: '--floor' }, { path: config.model, what: '--model' }], [{ path: config.out, what: '--out' }]);
   const floor = await readFloor(config.floor);
   let model: HmmModel;
