@@ -9,6 +9,7 @@ import { registerDecode } from './decode-command.js';
 import { registerRun } from './run-command.js';
 import { registerReport } from './report-command.js';
 import { registerCompare } from './compare-command.js';
+import { registerWorker } from './worker-command.js';
 
 /**
  * Runs the command line and returns the exit code: 0 success, 1 failure while working, 2 bad input or
@@ -44,6 +45,7 @@ export async function main(argv: string[], io: CliIo = processIo): Promise<numbe
   registerRun(program, commandIo);
   registerReport(program, commandIo);
   registerCompare(program, commandIo);
+  registerWorker(program, commandIo);
   for (const cmd of program.commands) cmd.exitOverride();
   const debug = argv.includes('--debug');
   try {
