@@ -38,7 +38,7 @@ export async function connectRedis(target: QueueTarget, where: string): Promise<
     return client;
   } catch (err) {
     client.disconnect();
-    throw redisError(err ?? lastError, target, where);
+    throw redisError(lastError ?? err, target, where);
   }
 }
 

@@ -113,7 +113,7 @@ export async function serveBlocks(client: Redis, options: ServeOptions): Promise
     const bytes = (await pool.run(task)) as Uint8Array;
     await client.set(fleetKeys(data.fit).result(data.call, data.block), Buffer.from(bytes.buffer, bytes.byteOffset, bytes.byteLength), 'PX', RESULT_TTL_MS);
     blocks++;
-    say(`fit ${data.fit.slice(0, 12)} · model ${data.version} · ${data.kind} block ${data.block} (${data.members.length} runs) · ${Date.now() - started} ms · ${bytes.byteLength} bytes`);
+    say(`fit ${data.fit.slice(0, 12)} · model ${data.version} · ${data.kind} block ${data.block} (${data.members.length} runs) · ${Date.now() - started} ms · ${bytes.byteLength} bytes${job.stalledCounter > 0 ? ' · handed out again after a stalled worker' : ''}`);
     return { bytes: bytes.byteLength };
   };
 

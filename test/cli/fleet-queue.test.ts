@@ -1,0 +1,131 @@
+import { describe, it, expect, beforeAll, afterAll } from 'vitest';
+import { spawn, type ChildProcess } from 'node:child_process';
+import { existsSync, readFileSync, writeFileSync } from 'node:fs';
+import { BIN, runCli, tempDir } from '../helpers/run-cli.js';
+import { gridFloor } from '../helpers/grid-floor.js';
+import { HAS_REDIS, freePort, startRedis, type TestRedis } from '../helpers/redis-server.js';
+
+// `fit --queue` through the built command with real worker processes on a private Redis (loopback, a
+// free port, a password). Skipped, with a message, only when redis-server is not installed.
+const PASSWORD = 'queue-test-secret-7d1f';
+const env = { ...process.env, FORCE_COLOR: '0', UNDERFOOT_REDIS_PASSWORD: PASSWORD };
+const floor = gridFloor(6, 5, ['oak', 'carpet', 'tile'], (x, y) => (x * 2 + y) % 3, 'queue test floor');
+const tmp = tempDir();
+const p = tmp.path;
+const fitArgs = (out: string, extra: string[] = []) => [
+  'fit', '--floor', p('floor.json'), '--runs', p('runs.csv'), '--out', out,
+  '--restarts', '2', '--transitions', 'tied', '--max-iter', '12', '--tol', '0', ...extra,
+];
+let redis: TestRedis;
+
+interface Spawned {
+  child: ChildProcess;
+  out: () => string;
+  exited: Promise<{ code: number | null; signal: NodeJS.Signals | null }>;
+}
+
+function spawnCli(args: string[]): Spawned {
+  const child = spawn(process.execPath, [BIN, ...args], { stdio: ['ignore', 'pipe', 'pipe'], env });
+  let text = '';
+  child.stdout!.on('data', (d) => (text += d));
+  child.stderr!.on('data', (d) => (text += d));
+  const exited = new Promise<{ code: number | null; signal: NodeJS.Signals | null }>((resolve) => child.on('exit', (code, signal) => resolve({ code, signal })));
+  return { child, out: () => text, exited };
+}
+
+const startWorker = (extra: string[] = []): Spawned => spawnCli(['worker', '--queue', redis.url, '--stall-seconds', '2', ...extra]);
+
+async function stopWorker(w: Spawned): Promise<void> {
+  if (w.child.exitCode === null && w.child.signalCode === null) w.child.kill('SIGTERM');
+  await w.exited;
+}
+
+async function waitFor(test: () => boolean, what: string, ms = 60_000): Promise<void> {
+  const started = Date.now();
+  while (!test()) {
+    if (Date.now() - started > ms) throw new Error(`timed out waiting for ${what}`);
+    await new Promise((r) => setTimeout(r, 20));
+  }
+}
+
+describe.skipIf(!HAS_REDIS)('fit --queue with worker processes', () => {
+  beforeAll(async () => {
+    redis = await startRedis(PASSWORD);
+    writeFileSync(p('floor.json'), JSON.stringify(floor));
+    const sim = runCli(['simulate', '--floor', p('floor.json'), '--runs', '40', '--steps', '300', '--seed', '11', '--hit', '0.8', '--out', p('runs.csv')]);
+    expect(sim.code, sim.stderr).toBe(0);
+    const ref = runCli(fitArgs(p('reference.json'), ['--workers', '1']));
+    expect(ref.code, ref.stderr).toBe(0);
+  });
+  afterAll(async () => {
+    await redis?.stop();
+    tmp.remove();
+  });
+
+  it('two workers: the model file is byte-identical to --workers 1', async () => {
+    const workers = [startWorker(), startWorker()];
+    try {
+      await waitFor(() => workers.every((w) => w.out().includes('serving blocks')), 'the workers to connect');
+      const fit = spawnCli(fitArgs(p('two.json'), ['--queue', redis.url]));
+      const end = await fit.exited;
+      expect(end.code, fit.out()).toBe(0);
+      expect(readFileSync(p('two.json'))).toEqual(readFileSync(p('reference.json')));
+      const lines = workers.map((w) => w.out().split('\n').filter((l) => l.includes(' block ')).length);
+      expect(lines[0] + lines[1]).toBeGreaterThan(20);
+      // The password is never printed.
+      expect(fit.out() + workers[0].out() + workers[1].out()).not.toContain(PASSWORD);
+    } finally {
+      await Promise.all(workers.map(stopWorker));
+    }
+  });
+
+  it('a worker killed with SIGKILL mid-fit: its block is handed out again and the bytes are the same', async () => {
+    const victim = startWorker();
+    const other = startWorker();
+    try {
+      await waitFor(() => victim.out().includes('serving blocks') && other.out().includes('serving blocks'), 'the workers to connect');
+      const fit = spawnCli(fitArgs(p('killed.json'), ['--queue', redis.url]));
+      // Once the victim has computed a few blocks it holds the next one (it takes a job as it finishes one).
+      await waitFor(() => victim.out().split('\n').filter((l) => l.includes(' block ')).length >= 5, 'the victim to compute blocks');
+      victim.child.kill('SIGKILL');
+      const killed = await victim.exited;
+      expect(killed.signal).toBe('SIGKILL');
+      const end = await fit.exited;
+      expect(end.code, fit.out()).toBe(0);
+      expect(readFileSync(p('killed.json'))).toEqual(readFileSync(p('reference.json')));
+      expect(other.out()).toContain('handed out again after a stalled worker');
+    } finally {
+      await Promise.all([stopWorker(victim), stopWorker(other)]);
+    }
+  });
+
+  it('no worker: a line while it waits, and --queue-timeout stops the fit cleanly, nothing written', async () => {
+    const fit = spawnCli(fitArgs(p('timeout.json'), ['--queue', redis.url, '--queue-timeout', '2']));
+    const end = await fit.exited;
+    expect(end.code).toBe(1);
+    const lines = fit.out().trim().split('\n');
+    expect(lines).toHaveLength(1);
+    expect(lines[0]).toMatch(/^underfoot: fit --queue: a worker must take or finish a block within --queue-timeout 2 s, got none for 2 s \(0 of \d+ blocks done\); start one with: underfoot worker --queue redis:\/\/127\.0\.0\.1:\d+$/);
+    expect(existsSync(p('timeout.json'))).toBe(false);
+  });
+
+  it('an unreachable Redis: one line, exit 2, nothing written', async () => {
+    const port = await freePort();
+    const r = runCli(fitArgs(p('unreachable.json'), ['--queue', `redis://127.0.0.1:${port}`]));
+    expect(r.code).toBe(2);
+    expect(r.stderr).toBe(`underfoot: fit: Redis at redis://127.0.0.1:${port} must be reachable, got ECONNREFUSED\n`);
+    expect(existsSync(p('unreachable.json'))).toBe(false);
+  });
+
+  it('a wrong password: one line, exit 2, the password not shown', () => {
+    const r = runCli(fitArgs(p('wrong.json'), ['--queue', `redis://:not-the-password@127.0.0.1:${redis.port}`]));
+    expect(r.code).toBe(2);
+    expect(r.stderr).toBe(
+      `underfoot: fit: Redis at redis://127.0.0.1:${redis.port} must accept the login (user and password from the URL or UNDERFOOT_REDIS_USER / UNDERFOOT_REDIS_PASSWORD), got WRONGPASS\n`,
+    );
+    expect(existsSync(p('wrong.json'))).toBe(false);
+    const w = runCli(['worker', '--queue', `redis://:not-the-password@127.0.0.1:${redis.port}`]);
+    expect(w.code).toBe(2);
+    expect(w.stderr).not.toContain('not-the-password');
+  });
+});
