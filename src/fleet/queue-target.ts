@@ -28,7 +28,7 @@ export function queueTarget(url: string, where: string, env: Readonly<Record<str
   try {
     u = new URL(url);
   } catch {
-    return fail('a URL such as redis://HOST:PORT', quote(url.replace(/\/\/[^@/]*@/, '//…@')));
+    return fail('a URL such as redis://HOST:PORT', 'text that is not a URL (not shown: it may hold a password)');
   }
   if (u.protocol !== 'redis:' && u.protocol !== 'rediss:') fail('a redis:// or rediss:// URL', quote(u.protocol));
   if (u.hostname === '') fail('a URL with a host', 'none');
