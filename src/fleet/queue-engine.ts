@@ -175,6 +175,7 @@ export class QueueEngine implements EStepEngine {
       const runs = createHash('sha256').update(payload).digest('hex');
       await client.set(this.keys.runs, payload, 'PX', KEY_TTL_MS);
       const queue = new Queue(BLOCK_QUEUE, { connection: client });
+      queue.on('error', () => {}); // connection trouble: reported by `Watch` from the client's status (BullMQ would print a stack)
       const newest = await client.xrevrange(queue.keys.events, '+', '-', 'COUNT', 1);
       const events = new QueueEvents(BLOCK_QUEUE, { connection: client.duplicate(), lastEventId: newest[0]?.[0] ?? '0-0', autorun: true });
       events.on('active', ({ jobId }) => this.pending.get(jobId)?.active());

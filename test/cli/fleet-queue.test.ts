@@ -99,6 +99,38 @@ describe.skipIf(!HAS_REDIS)('fit --queue with worker processes', () => {
     }
   });
 
+  it('Redis lost mid-fit: one line, exit 1; with --checkpoint the same command then resumes to the same bytes', async () => {
+    const workers = [startWorker(), startWorker()];
+    const dir = p('cp-lost');
+    const args = fitArgs(p('lost.json'), ['--queue', redis.url, '--checkpoint', dir]);
+    try {
+      await waitFor(() => workers.every((w) => w.out().includes('serving blocks')), 'the workers to connect');
+      const fit = spawnCli(args);
+      await waitFor(() => {
+        try {
+          const cp = JSON.parse(readFileSync(`${dir}/fit-checkpoint.json`, 'utf8'));
+          return cp.current !== null && cp.current.iterations >= 2;
+        } catch {
+          return false;
+        }
+      }, 'the checkpoint to show progress');
+      await redis.kill();
+      const end = await fit.exited;
+      expect(end.code).toBe(1);
+      expect(fit.out().trim().split('\n')).toEqual([
+        `underfoot: fit --queue: Redis at ${redis.url} must stay reachable during the fit, got the connection lost for 10 s; with --checkpoint DIR the same command resumes from the last finished iteration`,
+      ]);
+      expect(existsSync(p('lost.json'))).toBe(false);
+      await redis.restart();
+      const again = spawnCli(args);
+      const second = await again.exited;
+      expect(second.code, again.out()).toBe(0);
+      expect(readFileSync(p('lost.json'))).toEqual(readFileSync(p('reference.json')));
+    } finally {
+      await Promise.all(workers.map(stopWorker));
+    }
+  });
+
   it('no worker: a line while it waits, and --queue-timeout stops the fit cleanly, nothing written', async () => {
     const fit = spawnCli(fitArgs(p('timeout.json'), ['--queue', redis.url, '--queue-timeout', '2']));
     const end = await fit.exited;
