@@ -14,7 +14,7 @@ const tmp = tempDir();
 const p = tmp.path;
 const fitArgs = (out: string, extra: string[] = []) => [
   'fit', '--floor', p('floor.json'), '--runs', p('runs.csv'), '--out', out,
-  '--restarts', '2', '--transitions', 'tied', '--max-iter', '12', '--tol', '0', ...extra,
+  '--restarts', '2', '--transitions', 'tied', '--max-iter', '8', '--tol', '0', ...extra,
 ];
 let redis: TestRedis;
 
@@ -52,7 +52,7 @@ describe.skipIf(!HAS_REDIS)('fit --queue with worker processes', () => {
   beforeAll(async () => {
     redis = await startRedis(PASSWORD);
     writeFileSync(p('floor.json'), JSON.stringify(floor));
-    const sim = runCli(['simulate', '--floor', p('floor.json'), '--runs', '40', '--steps', '300', '--seed', '11', '--hit', '0.8', '--out', p('runs.csv')]);
+    const sim = runCli(['simulate', '--floor', p('floor.json'), '--runs', '40', '--steps', '200', '--seed', '11', '--hit', '0.8', '--out', p('runs.csv')]);
     expect(sim.code, sim.stderr).toBe(0);
     const ref = runCli(fitArgs(p('reference.json'), ['--workers', '1']));
     expect(ref.code, ref.stderr).toBe(0);
@@ -131,7 +131,7 @@ describe.skipIf(!HAS_REDIS)('fit --queue with worker processes', () => {
     }
   });
 
-  it('no worker: a line while it waits, and --queue-timeout stops the fit cleanly, nothing written', async () => {
+  it('no worker: --queue-timeout stops the fit cleanly with one line, nothing written', async () => {
     const fit = spawnCli(fitArgs(p('timeout.json'), ['--queue', redis.url, '--queue-timeout', '2']));
     const end = await fit.exited;
     expect(end.code).toBe(1);
