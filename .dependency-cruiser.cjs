@@ -2,6 +2,7 @@
  * The layers of src/, checked by `npm test` (`npm run lint:deps`). Dependencies point one way:
  *
  *   cli → pipeline → compare, report → fit, decode → model → kernels
+ *   pipeline → fleet (fit's E-step blocks over a BullMQ queue on Redis) → fit → model → kernels
  *   io (the only file-system code) is used by pipeline; it may use model's types. report may name
  *   io's types (the tables and model file it is handed) but call none of its code.
  *   errors.ts and version.ts (src root) may be used by every layer; index.ts is the public entry.
@@ -26,6 +27,7 @@ module.exports = {
     layer('decode', ['model', 'kernels']),
     layer('fit', ['model', 'kernels']),
     layer('compare', ['fit', 'decode', 'model', 'kernels']),
+    layer('fleet', ['fit', 'model', 'kernels']),
     layer('report', ['compare', 'fit', 'decode', 'model', 'kernels', 'io']),
     {
       name: 'report-takes-only-types-from-io',
@@ -35,7 +37,7 @@ module.exports = {
       to: { path: '^src/io/', dependencyTypesNot: ['type-only'] },
     },
     layer('io', ['model']),
-    layer('pipeline', ['io', 'compare', 'report', 'fit', 'decode', 'model', 'kernels']),
+    layer('pipeline', ['io', 'compare', 'report', 'fleet', 'fit', 'decode', 'model', 'kernels']),
     layer('cli', ['pipeline']),
     {
       name: 'kernels-are-pure',

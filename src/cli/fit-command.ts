@@ -4,7 +4,7 @@ import { resolveFitOptions } from '../pipeline/resolve-fit-options.js';
 import type { ModelFile } from '../pipeline/cli-surface.js';
 import { addKeyColumnOptions, addOutputOptions, keyColumnsFrom } from './common-options.js';
 import type { CliIo } from './cli-io.js';
-import { fitProgress } from './progress.js';
+import { fitProgress, queueWaitLine } from './progress.js';
 import { formatTable } from './format-table.js';
 import { InterruptedError } from '../errors.js';
 import { cooperativeStop, endCooperativeStop } from './interrupts.js';
@@ -31,7 +31,9 @@ export function registerFit(program: Command, io: CliIo): void {
     .option('--workers <n>', 'threads for the E-step, the main one included (default: the number of cores)')
     .option('--no-final-pass', 'skip continuing the chosen restart on all runs')
     .option('--from <model>', 'start from an existing model (warm start, for re-fits)')
-    .option('--checkpoint <dir>', 'save the fit after every iteration in this folder; the same command resumes it');
+    .option('--checkpoint <dir>', 'save the fit after every iteration in this folder; the same command resumes it')
+    .option('--queue <url>', 'run the E-steps on workers through Redis (redis://[user:password@]HOST:PORT; password also from UNDERFOOT_REDIS_PASSWORD); start workers with underfoot worker --queue URL')
+    .option('--queue-timeout <s>', 'with --queue: stop when no worker takes or finishes a block for this many seconds (default: wait, with a line every 10 s)');
   addKeyColumnOptions(cmd);
   addOutputOptions(cmd);
   cmd.action(async (opts: Record<string, unknown>) => {
@@ -40,7 +42,7 @@ export function registerFit(program: Command, io: CliIo): void {
     const signal = cooperativeStop();
     let outcome;
     try {
-      outcome = await fitFromFiles({ ...config, signal }, progress.onProgress);
+      outcome = await fitFromFiles({ ...config, signal, onQueueWait: queueWaitLine(io, 'fit') }, progress.onProgress);
     } catch (err) {
       if (err instanceof InterruptedError) {
         throw new InterruptedError(
@@ -64,7 +66,7 @@ export function registerFit(program: Command, io: CliIo): void {
 /** Flags → checked fit config (pure). */
 export function fitConfig(opts: Record<string, unknown>): FitConfig {
   const raw = { ...opts, finalPass: opts.finalPass === undefined ? undefined : Boolean(opts.finalPass) };
-  const { options, workers, from } = resolveFitOptions(raw, 'fit');
+  const { options, workers, from, queue } = resolveFitOptions(raw, 'fit');
   return {
     floor: String(opts.floor),
     runs: opts.runs as string[],
@@ -74,6 +76,7 @@ export function fitConfig(opts: Record<string, unknown>): FitConfig {
     workers,
     keys: keyColumnsFrom(opts, 'fit'),
     checkpoint: opts.checkpoint ? String(opts.checkpoint) : null,
+    queue,
   };
 }
 

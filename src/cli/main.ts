@@ -17,6 +17,7 @@ const COMMANDS: Record<string, () => Promise<Register>> = {
   run: async () => (await import('./run-command.js')).registerRun,
   report: async () => (await import('./report-command.js')).registerReport,
   compare: async () => (await import('./compare-command.js')).registerCompare,
+  worker: async () => (await import('./worker-command.js')).registerWorker,
 };
 
 /**

@@ -1,4 +1,4 @@
-import type { FitProgress } from '../pipeline/cli-surface.js';
+import type { FitProgress, QueueWait } from '../pipeline/cli-surface.js';
 import type { CompareProgress } from '../pipeline/compare-from-files.js';
 import type { CliIo } from './cli-io.js';
 
@@ -44,4 +44,12 @@ export function compareProgress(io: CliIo, quiet: boolean): { onProgress?: (p: C
     const stage = p.stage === 'plain' ? 'warm start' : p.stage === 'robust' ? `robust start ε ${p.robust}` : p.stage === 'fresh' ? 'fresh start' : 'swap search';
     return `${data} · ${stage}`;
   });
+}
+
+/** `fit --queue`'s wait for workers: one line each time the queue has been idle a while (not under --quiet). */
+export function queueWaitLine(io: CliIo, where: string): (wait: QueueWait) => void {
+  return (w) =>
+    io.err(
+      `${io.errIsTty ? '\r\x1b[2K' : ''}${where}: waiting for workers on ${w.queue}: ${w.done} of ${w.total} blocks done, none taken or finished for ${w.idleSeconds} s (start one with: underfoot worker --queue ${w.queue})\n`,
+    );
 }

@@ -2,7 +2,7 @@ import type { Command } from 'commander';
 
 import { addOutputOptions, numberOption } from './common-options.js';
 import type { CliIo } from './cli-io.js';
-import { compareProgress } from './progress.js';
+import { compareProgress, queueWaitLine } from './progress.js';
 import { formatCompareSummary } from './compare-command.js';
 import { formatFitSummary } from './fit-command.js';
 import { formatDecodeSummary } from './decode-command.js';
@@ -23,7 +23,7 @@ export function registerRun(program: Command, io: CliIo): void {
     const signal = cooperativeStop();
     try {
       const { runPipeline } = await import('../pipeline/run-pipeline.js');
-      res = await runPipeline(path, progress.onProgress, { workers, signal });
+      res = await runPipeline(path, progress.onProgress, { workers, signal, onQueueWait: queueWaitLine(io, 'run') });
     } catch (err) {
       if (err instanceof InterruptedError) throw new InterruptedError(`pipeline interrupted (${err.signal}) during the fit; nothing more was written`, err.signal);
       throw err;

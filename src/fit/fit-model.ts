@@ -18,7 +18,7 @@ import { createHash } from 'node:crypto';
 import { checkCheckpoint } from './check-checkpoint.js';
 import { impossibleRunError } from './impossible-run-error.js';
 import type { EStepEngine } from './e-step-engine.js';
-import { LocalEngine } from './local-engine.js';
+import { LocalEngine, type EngineOptions } from './local-engine.js';
 import type { FitOptions, FitRecord, LoopRecord } from './fit-record.js';
 import { TOOL_VERSION } from '../version.js';
 import { selectRestart } from './select-restart.js';
@@ -106,6 +106,11 @@ export interface FitControl {
    * same command. The runs' ids and readings as read are part of the key as well.
    */
   configKey?: string;
+  /**
+   * Makes the E-step engine instead of `LocalEngine`/`PoolEngine` (e.g. `fit --queue`: the fleet's
+   * `QueueEngine`). It gets the packed runs and the engine options the fit chose; the fit closes it.
+   */
+  engine?: (packed: PackedRuns, options: EngineOptions) => EStepEngine;
 }
 
 export async function fitModel(
@@ -123,7 +128,7 @@ export async function fitModel(
   const modes: TransitionMode[] = o.transitions === 'auto' ? autoCandidates({ movement: input.movement === true }) : [o.transitions];
   // Odometry shapes the transitions of the `tied` and `fixed` modes only; other modes fit without it.
   const useMovement = input.movement === true && modes.every((mode) => mode === 'tied' || mode === 'fixed');
-  const packed = packRuns(useMovement ? runs : runs.map(({ id, obs }) => ({ id, obs })), workers > 1);
+  const packed = packRuns(useMovement ? runs : runs.map(({ id, obs }) => ({ id, obs })), workers > 1 && !control.engine);
   const built = input.warmStart ? null : buildModel(floor, { dwell: o.dwell, hit: o.hit });
   // Restart 0 of each mode starts from the survey prior, or from the warm start brought into that mode's family.
   const baseOf = (mode: TransitionMode): HmmModel => {
@@ -150,8 +155,9 @@ export async function fitModel(
   // With odometry the candidates are `fixed` and `tied`, whose totals form serves both.
   const engineMode: TransitionMode = modes.length > 1 ? (useMovement ? 'tied' : 'learned') : modes[0];
   // The thread pool (and its package) is loaded only for more than one thread (start-up time).
-  const engine: EStepEngine =
-    workers > 1
+  const engine: EStepEngine = control.engine
+    ? control.engine(packed, { mode: engineMode, prune })
+    : workers > 1
       ? new (await import('./pool-engine.js')).PoolEngine(packed, workers, { mode: engineMode, prune })
       : new LocalEngine(packed, { mode: engineMode, prune });
   try {

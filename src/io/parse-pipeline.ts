@@ -9,7 +9,7 @@ const TOP_KEYS = ['format', 'floor', 'runs', 'columns', 'model', 'fit', 'compare
 const COLUMN_KEYS = ['run', 'step', 'reading', 'unknownReadings', 'movedCol', 'headingCol', 'timeCol', 'period'];
 export const PIPELINE_FIT_KEYS = [
   'restarts', 'holdout', 'holdoutCol', 'seed', 'transitions', 'dwell', 'hit', 'priorStrength', 'transitionPriorStrength',
-  'maxIter', 'tol', 'workers', 'finalPass', 'from', 'prune',
+  'maxIter', 'tol', 'workers', 'finalPass', 'from', 'prune', 'queue', 'queueTimeout',
 ];
 export const PIPELINE_COMPARE_KEYS = [
   'fdr', 'minReadings', 'nullDraws', 'robust', 'swapRounds', 'seed', 'transitions', 'priorStrength', 'maxIter', 'tol', 'workers',

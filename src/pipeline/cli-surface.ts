@@ -11,3 +11,4 @@ export type { FitProgress } from '../fit/fit-model.js';
 export type { ModelFile } from '../io/model-file.js';
 export { removeTemporaryFiles } from './temporary-files.js';
 export { SAFETY_CAUTION } from './decode-from-files.js';
+export type { QueueWait } from './queue-engine-for.js';

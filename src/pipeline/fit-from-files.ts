@@ -6,7 +6,9 @@ import { writeFileAtomic } from '../io/write-atomic.js';
 import type { ModelFile } from '../io/model-file.js';
 import { checkModelFloor } from '../model/check-model-floor.js';
 import { withFloorZones } from '../model/with-floor-zones.js';
-import { fitModel, type FitProgress } from '../fit/fit-model.js';
+import { fitModel, type FitControl, type FitProgress } from '../fit/fit-model.js';
+import type { QueueSetting } from './resolve-fit-options.js';
+import type { QueueWait } from './queue-engine-for.js';
 import type { FitOptions } from '../fit/fit-record.js';
 import type { KeyColumns } from './key-columns.js';
 import { loadRuns } from './load-runs.js';
@@ -27,6 +29,10 @@ export interface FitConfig {
   checkpoint?: string | null;
   /** Stops the fit after the current iteration (SIGINT). */
   signal?: AbortSignal;
+  /** `--queue`: E-steps on workers through Redis; null or absent = in this process. */
+  queue?: QueueSetting | null;
+  /** Called every few seconds while the queue's workers take no block (the CLI prints a line). */
+  onQueueWait?: (wait: QueueWait) => void;
 }
 
 export interface FitOutcome {
@@ -43,6 +49,22 @@ export async function fitFromFiles(config: FitConfig, onProgress?: (p: FitProgre
     [{ path: config.floor, what: '--floor' }, ...config.runs.map((r) => ({ path: r, what: '--runs' })), { path: config.from, what: '--from' }],
     [{ path: config.out, what: '--out' }, { path: checkpoint?.where, what: '--checkpoint' }],
   );
+  // Before any reading: an unreachable queue is one line, and nothing is written.
+  // Loaded only for --queue, so plain fits do not load the queue's client packages.
+  const queue = config.queue ? await (await import('./queue-engine-for.js')).queueEngineFor(config.queue, 'fit', config.onQueueWait) : null;
+  try {
+    return await fitWith(config, checkpoint, queue?.engine, onProgress);
+  } finally {
+    await queue?.close();
+  }
+}
+
+async function fitWith(
+  config: FitConfig,
+  checkpoint: CheckpointDir | undefined,
+  engine: FitControl['engine'],
+  onProgress?: (p: FitProgress) => void,
+): Promise<FitOutcome> {
   const floor = await readFloor(config.floor);
   const loaded = await loadRuns(config.runs, { surfaces: floor.surfaces, ...config.keys });
   const options = { ...config.options };
@@ -67,7 +89,7 @@ export async function fitFromFiles(config: FitConfig, onProgress?: (p: FitProgre
     options,
     config.workers,
     onProgress,
-    { checkpoint, signal: config.signal, configKey: JSON.stringify(config.keys) },
+    { checkpoint, signal: config.signal, configKey: JSON.stringify(config.keys), engine },
   );
   const file: ModelFile = { name: floor.name, model: withFloorZones(result.model, floor), fit: result.record };
   await writeFileAtomic(config.out, formatModel(file));

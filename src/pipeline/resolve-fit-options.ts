@@ -4,6 +4,14 @@ import { optionReader } from './option-reader.js';
 import { DEFAULT_FIT_OPTIONS, DEFAULT_TRANSITION_PRIOR_STRENGTH } from '../fit/fit-model.js';
 import type { FitOptions, FitTransitions } from '../fit/fit-record.js';
 
+/** `fit --queue URL [--queue-timeout S]`: run the E-steps on workers through Redis (see `src/fleet/`). */
+export interface QueueSetting {
+  /** redis:// URL as given (may hold a password: never printed). */
+  url: string;
+  /** Seconds without any block taken or finished before the fit stops; null = wait. */
+  timeoutSeconds: number | null;
+}
+
 /** Raw option values from flags (strings) or a pipeline file (JSON values), camelCase keys. */
 export type RawFitOptions = Record<string, unknown>;
 
@@ -15,7 +23,7 @@ export function resolveFitOptions(
   raw: RawFitOptions,
   where: string,
   flag: (key: string) => string = (k) => `--${k.replace(/[A-Z]/g, (c) => '-' + c.toLowerCase())}`,
-): { options: FitOptions; workers: number; from: string | null } {
+): { options: FitOptions; workers: number; from: string | null; queue: QueueSetting | null } {
   const fail = (key: string, requirement: string): never => {
     throw new InputError(`${where}: ${flag(key)} must be ${requirement}, got ${quote(raw[key])}`);
   };
@@ -54,5 +62,13 @@ export function resolveFitOptions(
     ...(prune > 0 ? { prune } : {}),
   };
   const workers = int('workers', availableParallelism(), 1, 256);
-  return { options, workers, from };
+  let queue: QueueSetting | null = null;
+  if (raw.queue !== undefined && raw.queue !== null) {
+    if (typeof raw.queue !== 'string' || raw.queue.trim() === '') fail('queue', 'a redis:// URL');
+    const timeoutSeconds = raw.queueTimeout === undefined || raw.queueTimeout === null ? null : num('queueTimeout', 0, (x) => x > 0 && x <= 1e7, 'a number of seconds above 0');
+    queue = { url: raw.queue as string, timeoutSeconds };
+  } else if (raw.queueTimeout !== undefined && raw.queueTimeout !== null) {
+    throw new InputError(`${where}: ${flag('queueTimeout')} must come with ${flag('queue')}, got it alone`);
+  }
+  return { options, workers, from, queue };
 }

@@ -6,6 +6,7 @@ import type { FitProgress } from '../fit/fit-model.js';
 import { DEFAULT_KEY_COLUMNS, type KeyColumns } from './key-columns.js';
 import { resolveFitOptions } from './resolve-fit-options.js';
 import { fitFromFiles, type FitOutcome } from './fit-from-files.js';
+import type { QueueWait } from './queue-engine-for.js';
 import { decodeFromFiles, type DecodeOutcome } from './decode-from-files.js';
 import { reportToFile } from './report-to-file.js';
 import { compareFromFiles, type CompareOutcome, type CompareProgress } from './compare-from-files.js';
@@ -30,7 +31,7 @@ export interface PipelineOutcome {
 export async function runPipeline(
   path: string,
   onProgress?: (p: FitProgress | CompareProgress) => void,
-  overrides: { workers?: number; signal?: AbortSignal } = {},
+  overrides: { workers?: number; signal?: AbortSignal; onQueueWait?: (wait: QueueWait) => void } = {},
 ): Promise<PipelineOutcome> {
   const p = await readPipeline(path);
   const keys: KeyColumns = {
@@ -70,7 +71,7 @@ export async function runPipeline(
   let fit: FitOutcome | null = null;
   if (fitOpts) {
     fit = await fitFromFiles(
-      { floor: p.floor, runs: p.runs, out: p.out.model!, from: fitOpts.from, options: fitOpts.options, workers: fitOpts.workers, keys, signal: overrides.signal },
+      { floor: p.floor, runs: p.runs, out: p.out.model!, from: fitOpts.from, options: fitOpts.options, workers: fitOpts.workers, keys, signal: overrides.signal, queue: fitOpts.queue, onQueueWait: overrides.onQueueWait },
       onProgress,
     );
     written.push(p.out.model!);

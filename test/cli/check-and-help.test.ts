@@ -32,7 +32,7 @@ describe('check', () => {
 });
 
 describe('--help', () => {
-  for (const cmd of ['', 'check', 'simulate', 'fit', 'decode', 'run', 'compare', 'report']) {
+  for (const cmd of ['', 'check', 'simulate', 'fit', 'decode', 'run', 'compare', 'report', 'worker']) {
     it(`underfoot ${cmd || '(no command)'} --help is readable (snapshot)`, () => {
       const r = runCli(cmd ? [cmd, '--help'] : ['--help']);
       expect(r.code).toBe(0);

@@ -36,6 +36,7 @@ describe('layer rules (.dependency-cruiser.cjs)', () => {
     expect(found).toEqual(
       [
         'cli-imports-only-pipeline src/cli/bad-command.ts -> src/io/read-thing.ts',
+        'fleet-imports-only-fit-model-kernels src/fleet/bad-fleet.ts -> src/pipeline/good-step.ts',
         'kernels-are-pure src/kernels/bad-kernel.ts -> fs',
         'kernels-imports-only-itself src/kernels/bad-kernel.ts -> src/io/read-thing.ts',
         'no-cycles src/fit/cycle-a.ts -> src/fit/cycle-b.ts',

@@ -1,0 +1,12 @@
+import { Queue, Worker, QueueEvents } from 'bullmq';
+import { Redis } from 'ioredis';
+const conn = () => new Redis({ host: '127.0.0.1', port: 6391, maxRetriesPerRequest: null });
+const q = new Queue('t1', { connection: conn() });
+const ev = new QueueEvents('t1', { connection: conn() });
+await ev.waitUntilReady();
+ev.on('completed', ({ jobId, returnvalue }) => console.log('completed', jobId, returnvalue));
+const w = new Worker('t1', async (job) => ({ x: job.data.a * 2 }), { connection: conn(), concurrency: 2 });
+await q.addBulk([{ name: 'a', data: { a: 1 }, opts: { jobId: 'f-1', removeOnComplete: true } }, { name: 'a', data: { a: 2 }, opts: { jobId: 'f-2', removeOnComplete: true } }]);
+await new Promise((r) => setTimeout(r, 500));
+await w.close(); await q.close(); await ev.close();
+console.log('done');
