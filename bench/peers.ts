@@ -75,7 +75,7 @@ export function peerInput(model: HmmModel, runs: ReadonlyArray<Int32Array>, call
   parts.push(String(runs.length));
   for (const obs of runs) parts.push(`${obs.length} ${Array.from(obs, (o) => (o < 0 ? m : o)).join(' ')}`);
   parts.push([calls.length, ...calls].join(' '));
-  return parts.join('\n') + '\n';
+  return `${parts.join('\n')}\n`;
 }
 
 /** Compiles the GHMM driver; returns the executable's path, or why it cannot be built. */

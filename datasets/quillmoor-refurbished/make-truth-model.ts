@@ -46,5 +46,5 @@ if (changed.length !== Object.keys(changes).length) throw new Error('make-truth-
 const text = formatModel({ name: 'Quillmoor Arts Centre after refurbishment — simulation truth', model, fit: null });
 parseModel(text, 'truth-model.json');
 writeFileSync(here('./truth-model.json'), text);
-writeFileSync(here('./changed-cells.txt'), changed.join('\n') + '\n');
+writeFileSync(here('./changed-cells.txt'), `${changed.join('\n')}\n`);
 console.log(`wrote truth-model.json and changed-cells.txt: ${changed.length} changed cells`);

@@ -14,7 +14,7 @@ export function registerCheck(program: Command, io: CliIo): void {
   addOutputOptions(cmd);
   cmd.action(async (opts: Record<string, unknown>) => {
     const report = await checkInputs(String(opts.floor), opts.runs as string[], keyColumnsFrom(opts, 'check'));
-    io.out(opts.json ? JSON.stringify(report, null, 2) + '\n' : formatCheck(report));
+    io.out(opts.json ? `${JSON.stringify(report, null, 2)}\n` : formatCheck(report));
   });
 }
 
@@ -38,7 +38,7 @@ export function formatCheck(r: CheckReport): string {
     formatTable(['surface', 'cells', r.runs ? 'readings' : ''], rows)
       .trimEnd()
       .split('\n')
-      .map((l) => '  ' + l)
+      .map((l) => `  ${l}`)
       .join('\n'),
   );
   if (f.zones.length) {
@@ -74,5 +74,5 @@ export function formatCheck(r: CheckReport): string {
   } else {
     lines.push('no warnings');
   }
-  return lines.join('\n') + '\n';
+  return `${lines.join('\n')}\n`;
 }

@@ -48,7 +48,7 @@ export function registerCompare(program: Command, io: CliIo): void {
     }
     for (const w of res.warnings) io.err(`warning: ${w}\n`);
     if (opts.json) {
-      io.out(JSON.stringify({ changed: res.nChanged, changesReported: res.nRegionsChanged, placed: res.nPlaced, tested: res.nTested, tooFewReadings: res.nTooFew, nullDraws: res.nullDraws, inflation: res.inflation, beforePerReading: res.beforePerReading, afterPerReading: res.afterPerReading, changes: res.changes, regions: res.regions }) + '\n');
+      io.out(`${JSON.stringify({ changed: res.nChanged, changesReported: res.nRegionsChanged, placed: res.nPlaced, tested: res.nTested, tooFewReadings: res.nTooFew, nullDraws: res.nullDraws, inflation: res.inflation, beforePerReading: res.beforePerReading, afterPerReading: res.afterPerReading, changes: res.changes, regions: res.regions })}\n`);
       return;
     }
     io.out(formatCompareSummary(res, config));
@@ -117,5 +117,5 @@ export function formatCompareSummary(res: CompareOutcome, config: Pick<CompareCo
   if (config.refit) lines.push(`wrote ${config.refit}`);
   if (config.writeFloor) lines.push(`wrote ${config.writeFloor}`);
   lines.push(COMPARE_CAUTION);
-  return lines.join('\n') + '\n';
+  return `${lines.join('\n')}\n`;
 }

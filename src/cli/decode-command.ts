@@ -32,7 +32,7 @@ export function registerDecode(program: Command, io: CliIo): void {
     const config = decodeConfig(opts);
     const res = await decodeFromFiles(config);
     for (const w of res.warnings) io.err(`warning: ${w}\n`);
-    if (opts.json) io.out(JSON.stringify({ out: config.out, summary: config.summary, runs: res.decoded.summaries }) + '\n');
+    if (opts.json) io.out(`${JSON.stringify({ out: config.out, summary: config.summary, runs: res.decoded.summaries })}\n`);
     else io.out(formatDecodeSummary(res, config.out, config.summary));
   });
 }
@@ -62,5 +62,5 @@ export function formatDecodeSummary(res: DecodeOutcome, out: string | null, summ
   if (out) lines.push(`wrote ${out}`);
   if (summary) lines.push(`wrote ${summary}`);
   lines.push(SAFETY_NOTE);
-  return lines.join('\n') + '\n';
+  return `${lines.join('\n')}\n`;
 }

@@ -40,7 +40,7 @@ export function registerFit(program: Command, io: CliIo): void {
     const config = fitConfig(opts);
     const progress = fitProgress(io, Boolean(opts.quiet));
     const signal = cooperativeStop();
-    let outcome;
+    let outcome: Awaited<ReturnType<typeof fitFromFiles>>;
     try {
       outcome = await fitFromFiles({ ...config, signal, onQueueWait: queueWaitLine(io, 'fit') }, progress.onProgress);
     } catch (err) {
@@ -58,7 +58,7 @@ export function registerFit(program: Command, io: CliIo): void {
       progress.done();
     }
     for (const w of outcome.warnings) io.err(`warning: ${w}\n`);
-    if (opts.json) io.out(JSON.stringify({ out: config.out, name: outcome.file.name, fit: outcome.file.fit }) + '\n');
+    if (opts.json) io.out(`${JSON.stringify({ out: config.out, name: outcome.file.name, fit: outcome.file.fit })}\n`);
     else io.out(formatFitSummary(outcome.file, config.out));
   });
 }
@@ -116,5 +116,5 @@ export function formatFitSummary(file: ModelFile, out: string): string {
     );
   }
   lines.push(`wrote ${out}`);
-  return lines.join('\n') + '\n';
+  return `${lines.join('\n')}\n`;
 }

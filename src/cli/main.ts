@@ -64,17 +64,17 @@ export async function main(argv: string[], io: CliIo = processIo): Promise<numbe
     }
     if (err instanceof InputError || err instanceof WorkError || err instanceof InterruptedError) {
       printError(err.message, err.exitCode);
-      if (debug && err.stack) io.err(err.stack + '\n');
+      if (debug && err.stack) io.err(`${err.stack}\n`);
       return err.exitCode;
     }
     if (isOutOfMemory(err)) {
       printError(outOfMemoryError(err).message, 1);
-      if (debug && (err as Error).stack) io.err((err as Error).stack + '\n');
+      if (debug && (err as Error).stack) io.err(`${(err as Error).stack}\n`);
       return 1;
     }
     const e = err as Error;
     printError(`internal error: ${e?.message ?? String(err)}${debug ? '' : ' (run again with --debug for details)'}`, 1);
-    if (debug && e?.stack) io.err(e.stack + '\n');
+    if (debug && e?.stack) io.err(`${e.stack}\n`);
     return 1;
   }
 }

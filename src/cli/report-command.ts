@@ -27,7 +27,7 @@ export function registerReport(program: Command, io: CliIo): void {
     const { reportToFile } = await import('../pipeline/report-to-file.js');
     const res = await reportToFile(config);
     for (const w of res.warnings) io.err(`warning: ${w}\n`);
-    if (opts.json) io.out(JSON.stringify(reportJson(res)) + '\n');
+    if (opts.json) io.out(`${JSON.stringify(reportJson(res))}\n`);
     else io.out(formatReportSummary(res));
   });
 }
@@ -75,9 +75,9 @@ export function formatReportSummary(res: ReportOutcome): string {
   const a = d.ambiguity;
   const rated = Array.from(a.visits).filter((v) => v >= a.options.minVisits).length;
   const ambiguous = a.ambiguous.reduce((s, x) => s + x, 0);
-  return [
+  return `${[
     `report: ${d.modelFile.model.cells.length} cells, ${d.disagreements.length} ${d.disagreements.length === 1 ? 'reads' : 'read'} unlike the survey, ${ambiguous} of ${rated} rated cells ambiguous (${a.options.runs} simulated runs of ${a.options.steps} steps, seed ${a.options.seed})${d.runRows ? `, ${d.runRows.length} runs ranked` : ''}`,
     `wrote ${res.out} (${Math.round(res.bytes / 1024)} KiB)`,
     SAFETY_NOTE,
-  ].join('\n') + '\n';
+  ].join('\n')}\n`;
 }

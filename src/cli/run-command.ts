@@ -19,7 +19,7 @@ export function registerRun(program: Command, io: CliIo): void {
   cmd.action(async (path: string, opts: Record<string, unknown>) => {
     const workers = opts.workers === undefined ? undefined : numberOption(opts.workers, 'run', '--workers', (x) => Number.isInteger(x) && x >= 1, 'a whole number ≥ 1');
     const progress = compareProgress(io, Boolean(opts.quiet));
-    let res;
+    let res: Awaited<ReturnType<typeof import('../pipeline/run-pipeline.js').runPipeline>>;
     const signal = cooperativeStop();
     try {
       const { runPipeline } = await import('../pipeline/run-pipeline.js');
@@ -34,18 +34,18 @@ export function registerRun(program: Command, io: CliIo): void {
     for (const w of res.warnings) io.err(`warning: ${w}\n`);
     if (opts.json) {
       io.out(
-        JSON.stringify({
+        `${JSON.stringify({
           written: res.written,
           fit: res.fit?.file.fit ?? null,
           compare: res.compare ? { changed: res.compare.nChanged, changesReported: res.compare.nRegionsChanged, placed: res.compare.nPlaced, tested: res.compare.nTested, tooFewReadings: res.compare.nTooFew, nullDraws: res.compare.nullDraws, changes: res.compare.changes, regions: res.compare.regions } : null,
           runs: res.decode?.decoded.summaries ?? null,
-        }) + '\n',
+        })}\n`,
       );
       return;
     }
-    if (res.fit) io.out(formatFitSummary(res.fit.file, res.written[0]) + '\n');
+    if (res.fit) io.out(`${formatFitSummary(res.fit.file, res.written[0])}\n`);
     if (res.compare) io.out(formatCompareSummary(res.compare, { out: null, refit: null, writeFloor: null, compare: res.compare.options }));
-    if (res.decode) io.out(formatDecodeSummary(res.decode, null, null).replace(/\n$/, '') + '\n');
+    if (res.decode) io.out(`${formatDecodeSummary(res.decode, null, null).replace(/\n$/, '')}\n`);
     io.out(`wrote ${res.written.join(', ')}\n`);
   });
 }

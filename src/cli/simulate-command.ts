@@ -28,7 +28,7 @@ export function registerSimulate(program: Command, io: CliIo): void {
   cmd.action(async (opts: Record<string, unknown>) => {
     const config = simulateConfig(opts);
     const res = await simulateToFile(config);
-    if (opts.json) io.out(JSON.stringify({ out: config.out, ...res }) + '\n');
+    if (opts.json) io.out(`${JSON.stringify({ out: config.out, ...res })}\n`);
     else io.out(`wrote ${config.out}: ${res.nRuns} runs, ${res.nRows} rows (${res.nDropouts} dropouts, ${res.nGaps} lost steps), simulated from the ${res.source}\n`);
   });
 }

@@ -59,7 +59,10 @@ export function buildRegions(model: HmmModel, order: ReadonlyArray<number>, opti
     patch[s] = id;
     for (let h = 0; h < members.length; h++) {
       const i = members[h];
-      for (const j of adj[i]) if (patch[j] < 0 && alike(i, j)) (patch[j] = id), members.push(j);
+      for (const j of adj[i]) if (patch[j] < 0 && alike(i, j)) {
+        patch[j] = id;
+        members.push(j);
+      }
     }
     patches.push(members);
   }

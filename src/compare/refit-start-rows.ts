@@ -23,7 +23,10 @@ export function refitStartRows(old: HmmModel, kind: RefitStart): Float64Array {
   if (kind === 'survey') {
     let hit = 0;
     let k = 0;
-    for (let i = 0; i < n; i++) if (surveyed[i] >= 0) (hit += old.emission[i * m + surveyed[i]]), k++;
+    for (let i = 0; i < n; i++) if (surveyed[i] >= 0) {
+      hit += old.emission[i * m + surveyed[i]];
+      k++;
+    }
     if (k === 0 || m < 2) return out;
     hit /= k;
     const rest = (1 - hit) / (m - 1);

@@ -233,7 +233,10 @@ function within(adjacency: number[][], i: number, radius: number): number[] {
   let frontier = [i];
   for (let d = 0; d < radius; d++) {
     const next: number[] = [];
-    for (const c of frontier) for (const j of adjacency[c]) if (!seen.has(j)) (seen.add(j), next.push(j));
+    for (const c of frontier) for (const j of adjacency[c]) if (!seen.has(j)) {
+          seen.add(j);
+          next.push(j);
+        }
     next.sort((a, b) => a - b);
     found.push(...next);
     frontier = next;

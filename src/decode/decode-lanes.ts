@@ -64,7 +64,7 @@ export function decodeLanes(chain: SparseChain, lanes: LaneTables, runs: Readonl
   const alone = options.useWasm !== false && (runs.filter((obs) => obs.length > 0).length < 2 || nSteps > (options.laneStepsLimit ?? DEFAULT_LANE_STEPS_LIMIT));
   if (options.useWasm !== false && !alone) {
     if (wasm === undefined) wasm = WasmDecodeLanes.available() ? WasmDecodeLanes.create() : null;
-    if (wasm && wasm.prepare(chain, lanes, group, vSegment, segment, positions)) kernels = wasm;
+    if (wasm?.prepare(chain, lanes, group, vSegment, segment, positions)) kernels = wasm;
   }
   const results: DecodedRun[] = runs.map((obs) => emptyDecodedRun(obs.length, positions !== null));
   if (nSteps === 0) return results;

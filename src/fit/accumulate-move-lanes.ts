@@ -38,7 +38,8 @@ export function accumulateMoveLanes(
   const T = group.nSteps;
   const segment = segmentSteps(T, row * 8, ws.plainLimitBytes);
   const nSegments = T === 0 ? 0 : Math.ceil(T / segment);
-  const buf = (ws.moveLanes ??= new MoveLaneBuffers());
+  if (!ws.moveLanes) ws.moveLanes = new MoveLaneBuffers();
+  const buf = ws.moveLanes;
   if (buf.moves.dBin.length < T * LANES) buf.moves = { dBin: new Int32Array(T * LANES), hBin: new Int32Array(T * LANES) };
   const { dBin, hBin } = buf.moves;
   dBin.fill(-1, 0, T * LANES);
@@ -53,7 +54,7 @@ export function accumulateMoveLanes(
   const checkpoints = nSegments > 1 ? ws.ensureCheckpoints(nSegments * row) : ws.checkpoints;
   logOut.fill(0, 0, LANES);
   const wasm = wasmMoveKernels(ws, buf);
-  if (wasm !== null && wasm.prepare(chain, group, buf.moves, segment)) {
+  if (wasm?.prepare(chain, group, buf.moves, segment)) {
     const table = wasm.table;
     for (let g = 0; g < nSegments; g++) {
       const s0 = g * segment;

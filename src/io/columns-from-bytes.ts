@@ -37,7 +37,7 @@ export function columnsFromBytes(bytes: Uint8Array, format: TableFormat, source:
   if (format === 'parquet') {
     throw new InputError(`${source}: a run summary or changes table for the report must be CSV or Arrow, got Parquet (write it as .csv or .arrow)`);
   }
-  let table;
+  let table: ReturnType<typeof tableFromIPC>;
   try {
     table = tableFromIPC(bytes);
   } catch (err) {

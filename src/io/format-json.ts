@@ -6,7 +6,7 @@
  */
 export function formatJson(value: unknown, indent = ''): string {
   if (value === null || typeof value !== 'object') return scalar(value);
-  const inner = indent + '  ';
+  const inner = `${indent}  `;
   if (Array.isArray(value)) {
     if (value.length === 0) return '[]';
     if (value.every(isFlat)) return `[${value.map((v) => formatJson(v, inner)).join(', ')}]`;

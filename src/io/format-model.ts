@@ -29,7 +29,7 @@ export function formatModel(file: ModelFile): string {
   }
   const emission = model.cells.map((_, i) => Array.from(model.emission.subarray(i * m, (i + 1) * m)));
   return (
-    formatJson({
+    `${formatJson({
       format: MODEL_FORMAT,
       name: file.name,
       surfaces: model.surfaces,
@@ -38,6 +38,6 @@ export function formatModel(file: ModelFile): string {
       emission,
       ...(model.movement ? { movement: { stayLogit: model.movement.stayLogit, stayPerMetre: model.movement.stayPerMetre, kappa: model.movement.kappa } } : {}),
       fit: file.fit,
-    }) + '\n'
+    })}\n`
   );
 }

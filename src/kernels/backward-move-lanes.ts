@@ -283,14 +283,14 @@ export function backwardMoveLanes(
       xs7 += um7 * ls7;
       let plainDwell = 0;
       let plainMove = 0;
-      if (db0 < 0) {{ plainDwell += u0 * d0; plainMove += um0 * l0; }} else if (el) {{ stays0 += u0 * d0; goes0 += um0 * l0; }}
-      if (db1 < 0) {{ plainDwell += u1 * d1; plainMove += um1 * l1; }} else if (el) {{ stays1 += u1 * d1; goes1 += um1 * l1; }}
-      if (db2 < 0) {{ plainDwell += u2 * d2; plainMove += um2 * l2; }} else if (el) {{ stays2 += u2 * d2; goes2 += um2 * l2; }}
-      if (db3 < 0) {{ plainDwell += u3 * d3; plainMove += um3 * l3; }} else if (el) {{ stays3 += u3 * d3; goes3 += um3 * l3; }}
-      if (db4 < 0) {{ plainDwell += u4 * d4; plainMove += um4 * l4; }} else if (el) {{ stays4 += u4 * d4; goes4 += um4 * l4; }}
-      if (db5 < 0) {{ plainDwell += u5 * d5; plainMove += um5 * l5; }} else if (el) {{ stays5 += u5 * d5; goes5 += um5 * l5; }}
-      if (db6 < 0) {{ plainDwell += u6 * d6; plainMove += um6 * l6; }} else if (el) {{ stays6 += u6 * d6; goes6 += um6 * l6; }}
-      if (db7 < 0) {{ plainDwell += u7 * d7; plainMove += um7 * l7; }} else if (el) {{ stays7 += u7 * d7; goes7 += um7 * l7; }}
+      if (db0 < 0) {plainDwell += u0 * d0; plainMove += um0 * l0; } else if (el) {stays0 += u0 * d0; goes0 += um0 * l0; }
+      if (db1 < 0) {plainDwell += u1 * d1; plainMove += um1 * l1; } else if (el) {stays1 += u1 * d1; goes1 += um1 * l1; }
+      if (db2 < 0) {plainDwell += u2 * d2; plainMove += um2 * l2; } else if (el) {stays2 += u2 * d2; goes2 += um2 * l2; }
+      if (db3 < 0) {plainDwell += u3 * d3; plainMove += um3 * l3; } else if (el) {stays3 += u3 * d3; goes3 += um3 * l3; }
+      if (db4 < 0) {plainDwell += u4 * d4; plainMove += um4 * l4; } else if (el) {stays4 += u4 * d4; goes4 += um4 * l4; }
+      if (db5 < 0) {plainDwell += u5 * d5; plainMove += um5 * l5; } else if (el) {stays5 += u5 * d5; goes5 += um5 * l5; }
+      if (db6 < 0) {plainDwell += u6 * d6; plainMove += um6 * l6; } else if (el) {stays6 += u6 * d6; goes6 += um6 * l6; }
+      if (db7 < 0) {plainDwell += u7 * d7; plainMove += um7 * l7; } else if (el) {stays7 += u7 * d7; goes7 += um7 * l7; }
       dwellCount[i] += plainDwell;
       moveCount[i] += plainMove;
       const b0 = d0 + m0 * l0 + z0;
@@ -327,22 +327,22 @@ export function backwardMoveLanes(
       out[y + 6] = p6 * emitT[e6 + i] * b6;
       out[y + 7] = p7 * emitT[e7 + i] * b7;
     }
-    if (db0 >= 0) {{ acc.stayByDistance[db0] += stays0; acc.moveByDistance[db0] += goes0; }}
-    if (db1 >= 0) {{ acc.stayByDistance[db1] += stays1; acc.moveByDistance[db1] += goes1; }}
-    if (db2 >= 0) {{ acc.stayByDistance[db2] += stays2; acc.moveByDistance[db2] += goes2; }}
-    if (db3 >= 0) {{ acc.stayByDistance[db3] += stays3; acc.moveByDistance[db3] += goes3; }}
-    if (db4 >= 0) {{ acc.stayByDistance[db4] += stays4; acc.moveByDistance[db4] += goes4; }}
-    if (db5 >= 0) {{ acc.stayByDistance[db5] += stays5; acc.moveByDistance[db5] += goes5; }}
-    if (db6 >= 0) {{ acc.stayByDistance[db6] += stays6; acc.moveByDistance[db6] += goes6; }}
-    if (db7 >= 0) {{ acc.stayByDistance[db7] += stays7; acc.moveByDistance[db7] += goes7; }}
-    if (hb0 >= 0) {{ headingCos[hb0] += xc0; headingSin[hb0] += xs0; }}
-    if (hb1 >= 0) {{ headingCos[hb1] += xc1; headingSin[hb1] += xs1; }}
-    if (hb2 >= 0) {{ headingCos[hb2] += xc2; headingSin[hb2] += xs2; }}
-    if (hb3 >= 0) {{ headingCos[hb3] += xc3; headingSin[hb3] += xs3; }}
-    if (hb4 >= 0) {{ headingCos[hb4] += xc4; headingSin[hb4] += xs4; }}
-    if (hb5 >= 0) {{ headingCos[hb5] += xc5; headingSin[hb5] += xs5; }}
-    if (hb6 >= 0) {{ headingCos[hb6] += xc6; headingSin[hb6] += xs6; }}
-    if (hb7 >= 0) {{ headingCos[hb7] += xc7; headingSin[hb7] += xs7; }}
+    if (db0 >= 0) {acc.stayByDistance[db0] += stays0; acc.moveByDistance[db0] += goes0; }
+    if (db1 >= 0) {acc.stayByDistance[db1] += stays1; acc.moveByDistance[db1] += goes1; }
+    if (db2 >= 0) {acc.stayByDistance[db2] += stays2; acc.moveByDistance[db2] += goes2; }
+    if (db3 >= 0) {acc.stayByDistance[db3] += stays3; acc.moveByDistance[db3] += goes3; }
+    if (db4 >= 0) {acc.stayByDistance[db4] += stays4; acc.moveByDistance[db4] += goes4; }
+    if (db5 >= 0) {acc.stayByDistance[db5] += stays5; acc.moveByDistance[db5] += goes5; }
+    if (db6 >= 0) {acc.stayByDistance[db6] += stays6; acc.moveByDistance[db6] += goes6; }
+    if (db7 >= 0) {acc.stayByDistance[db7] += stays7; acc.moveByDistance[db7] += goes7; }
+    if (hb0 >= 0) {headingCos[hb0] += xc0; headingSin[hb0] += xs0; }
+    if (hb1 >= 0) {headingCos[hb1] += xc1; headingSin[hb1] += xs1; }
+    if (hb2 >= 0) {headingCos[hb2] += xc2; headingSin[hb2] += xs2; }
+    if (hb3 >= 0) {headingCos[hb3] += xc3; headingSin[hb3] += xs3; }
+    if (hb4 >= 0) {headingCos[hb4] += xc4; headingSin[hb4] += xs4; }
+    if (hb5 >= 0) {headingCos[hb5] += xc5; headingSin[hb5] += xs5; }
+    if (hb6 >= 0) {headingCos[hb6] += xc6; headingSin[hb6] += xs6; }
+    if (hb7 >= 0) {headingCos[hb7] += xc7; headingSin[hb7] += xs7; }
     const swap = next;
     next = out;
     out = swap;

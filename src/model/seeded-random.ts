@@ -63,7 +63,7 @@ export class SeededRandom {
   gamma(shape: number): number {
     if (shape < 1) {
       const u = this.next();
-      return this.gamma(shape + 1) * Math.pow(u === 0 ? Number.MIN_VALUE : u, 1 / shape);
+      return this.gamma(shape + 1) * (u === 0 ? Number.MIN_VALUE : u) ** (1 / shape);
     }
     const d = shape - 1 / 3;
     const c = 1 / Math.sqrt(9 * d);

@@ -68,7 +68,7 @@ async function fitWith(
   const floor = await readFloor(config.floor);
   const loaded = await loadRuns(config.runs, { surfaces: floor.surfaces, ...config.keys });
   const options = { ...config.options };
-  let warmStart;
+  let warmStart: Awaited<ReturnType<typeof readModel>>['model'] | undefined;
   if (config.from) {
     const from = await readModel(config.from);
     checkModelFloor(from.model, config.from, floor, config.floor);

@@ -26,7 +26,7 @@ export interface ResolvedCompareOptions {
 export function resolveCompareOptions(
   raw: RawFitOptions,
   where: string,
-  flag: (key: string) => string = (k) => `--${k.replace(/[A-Z]/g, (c) => '-' + c.toLowerCase())}`,
+  flag: (key: string) => string = (k) => `--${k.replace(/[A-Z]/g, (c) => `-${c.toLowerCase()}`)}`,
 ): ResolvedCompareOptions {
   const { options, workers } = resolveFitOptions({ ...raw, transitions: raw.transitions ?? 'tied', restarts: 1, holdout: 0, finalPass: false }, where, flag);
   if (!['fixed', 'tied', 'learned'].includes(options.transitions)) {

@@ -10,7 +10,7 @@ import { optionReader } from './option-reader.js';
 export function resolveDecodeOptions(
   raw: Record<string, unknown>,
   where: string,
-  flag: (key: string) => string = (k) => `--${k.replace(/[A-Z]/g, (c) => '-' + c.toLowerCase())}`,
+  flag: (key: string) => string = (k) => `--${k.replace(/[A-Z]/g, (c) => `-${c.toLowerCase()}`)}`,
 ): DecodeThresholds {
   const { num } = optionReader(raw, where, flag);
   return {

@@ -22,7 +22,7 @@ export type RawFitOptions = Record<string, unknown>;
 export function resolveFitOptions(
   raw: RawFitOptions,
   where: string,
-  flag: (key: string) => string = (k) => `--${k.replace(/[A-Z]/g, (c) => '-' + c.toLowerCase())}`,
+  flag: (key: string) => string = (k) => `--${k.replace(/[A-Z]/g, (c) => `-${c.toLowerCase()}`)}`,
 ): { options: FitOptions; workers: number; from: string | null; queue: QueueSetting | null } {
   const fail = (key: string, requirement: string): never => {
     throw new InputError(`${where}: ${flag(key)} must be ${requirement}, got ${quote(raw[key])}`);

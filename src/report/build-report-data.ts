@@ -67,7 +67,7 @@ export function buildReportData(inputs: ReportInputs): ReportData {
   }
 
   const simOptions: Partial<AmbiguityOptions> = { ...inputs.ambiguity };
-  if (runRows && runRows.length) {
+  if (runRows?.length) {
     const steps = runRows.map((r) => r.steps).sort((a, b) => a - b);
     const median = steps[Math.floor((steps.length - 1) / 2)];
     if (simOptions.steps === undefined) simOptions.steps = Math.min(MAX_SIM_STEPS, Math.max(MIN_SIM_STEPS, median));

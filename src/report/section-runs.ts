@@ -4,7 +4,7 @@ import { htmlSwatchLegend } from './html-swatch-legend.js';
 import { htmlTable, type TableColumn } from './html-table.js';
 import { formatNumber } from './format-number.js';
 import { lowConfidenceShare } from './low-confidence-share.js';
-import { escapeHtml as escape } from './escape-html.js';
+import { escapeHtml } from './escape-html.js';
 
 const WORST = 10;
 
@@ -46,7 +46,7 @@ export function sectionRuns(d: ReportData): string {
     `<p class="lede">${rows.length} runs from ${source}, ${formatNumber(totalSurprising, 'int')} surprising steps in all. Runs far to the left read things the model finds unlikely (a sensor fault, an unmapped change, a robot somewhere the floor graph does not know); runs high up could not be placed with confidence. The three lowest-scoring runs are named.</p>` +
     `<figure>${svgRunsChart(rows, labelled)}<figcaption>One mark per run; the larger the mark, the more surprising steps the run has.</figcaption></figure>` +
     legend +
-    (impossible.length ? `<p class="warning">${impossible.length} run${impossible.length === 1 ? ' is' : 's are'} impossible under the model (probability zero) and could not be decoded: ${impossible.slice(0, 10).map((r) => `<code>${escape(r.run)}</code>`).join(', ')}.</p>` : '') +
+    (impossible.length ? `<p class="warning">${impossible.length} run${impossible.length === 1 ? ' is' : 's are'} impossible under the model (probability zero) and could not be decoded: ${impossible.slice(0, 10).map((r) => `<code>${escapeHtml(r.run)}</code>`).join(', ')}.</p>` : '') +
     '<div class="table-row">' +
     `<div><h3>Lowest log-likelihood per reading</h3>${htmlTable(columns, byLoglik)}</div>` +
     `<div><h3>Highest share of low-confidence steps</h3>${htmlTable(columns, byLow)}</div>` +

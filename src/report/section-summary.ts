@@ -27,7 +27,7 @@ export function sectionSummary(d: ReportData): string {
   if (nReadings !== null) {
     cards.push({ label: 'readings', value: formatNumber(nReadings, 'int'), detail: fit ? `${formatNumber(fit.nReadings.fit, 'int')} fitted on, ${formatNumber(fit.nReadings.heldOut, 'int')} held out` : 'in the annotated table' });
   }
-  if (fit && fit.restarts.length) {
+  if (fit?.restarts.length) {
     const chosen = fit.restarts[fit.selected];
     cards.push({ label: 'restarts', value: String(fit.restarts.length), detail: `chosen: restart ${fit.selected + 1} (seed ${chosen.seed}), by ${fit.selectedBy} score` });
     cards.push({ label: 'held-out log-likelihood / reading', value: formatNumber(chosen.heldOutLogLikPerReading, 'll'), detail: 'chosen restart, runs it never saw' });

@@ -18,7 +18,7 @@ const M = { top: 16, right: 124, bottom: 46, left: 70 };
  */
 export function svgConvergenceChart(restarts: LoopRecord[], selected: number, finalPass: LoopRecord | null, idPrefix: string): string {
   const loops = restarts.map((r, k) => ({ record: r, label: `restart ${k + 1}`, chosen: k === selected, final: false }));
-  if (finalPass && finalPass.history.length) loops.push({ record: finalPass, label: 'final pass', chosen: false, final: true });
+  if (finalPass?.history.length) loops.push({ record: finalPass, label: 'final pass', chosen: false, final: true });
   const maxLen = Math.max(2, ...loops.map((l) => l.record.history.length));
   const later = loops.flatMap((l) => (l.record.history.length > 1 ? l.record.history.slice(1) : l.record.history));
   const x = scaleLinear().domain([1, maxLen]).range([M.left, W - M.right]).nice();

@@ -39,7 +39,7 @@ export function svgEmissionHeatmap(model: HmmModel): string {
     const cell = model.cells[i];
     const x = LEFT + col * cw;
     const row = model.emission.subarray(i * m, (i + 1) * m);
-    const tip = `${cell.id} (surveyed ${cell.surface}): ` + model.surfaces.map((s, r) => `${s} ${formatNumber(row[r], 'p')}`).join(', ');
+    const tip = `${cell.id} (surveyed ${cell.surface}): ${model.surfaces.map((s, r) => `${s} ${formatNumber(row[r], 'p')}`).join(', ')}`;
     parts.push(`<g><title>${escapeHtml(tip)}</title>`);
     for (let r = 0; r < m; r++) parts.push(`<rect x="${f(x)}" y="${TOP + r * ROW}" width="${f(cw + 0.05)}" height="${ROW}" fill="${rampColour(row[r])}"/>`);
     parts.push('</g>');

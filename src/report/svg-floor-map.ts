@@ -139,8 +139,8 @@ export function svgFloorMap(model: HmmModel, geometry: FloorGeometry, level: Lev
 function scaleBar(pxPerM: number, x: number, y: number, width: number): string {
   const target = (width - 2 * MARGIN) / 5 / pxPerM;
   const exp = Math.floor(Math.log10(Math.max(target, 1e-9)));
-  let metres = Math.pow(10, exp);
-  for (const k of [2, 5, 10]) if (k * Math.pow(10, exp) <= target) metres = k * Math.pow(10, exp);
+  let metres = 10 ** exp;
+  for (const k of [2, 5, 10]) if (k * 10 ** exp <= target) metres = k * 10 ** exp;
   const len = metres * pxPerM;
   const label = `${Number(metres.toPrecision(3))} m`;
   return (

@@ -12,7 +12,7 @@ const tmp = tempDir();
 for (const f of ['floor.json', 'runs.csv']) copyFileSync(fixture(f), tmp.path(f));
 afterAll(() => tmp.remove());
 
-const fit = (mode: string, extra: string[] = []) =>
+const runFit = (mode: string, extra: string[] = []) =>
   runCli(['fit', '--floor', 'floor.json', '--runs', 'runs.csv', '--out', `model-${mode}.json`, '--restarts', '3', '--workers', '1', '--transitions', mode, '--max-iter', '60', ...extra], tmp.dir);
 
 /** The model file without the record's additive `predictiveCalibration` key, formatted as before. */
@@ -26,21 +26,21 @@ function withoutCalibration(text: string): string {
 describe('explicit transition modes behave exactly as before auto existed', () => {
   for (const mode of ['tied', 'fixed']) {
     it(`fit --transitions ${mode} writes the same bytes as before (apart from the added predictiveCalibration record)`, () => {
-      const r = fit(mode);
+      const r = runFit(mode);
       expect(r.code, r.stderr).toBe(0);
       expect(withoutCalibration(readFileSync(tmp.path(`model-${mode}.json`), 'utf8'))).toBe(readFileSync(fixture(`model-${mode}.json`), 'utf8'));
     });
   }
 
   it('fit --transitions tied prints the same restarts table and summary lines as before', () => {
-    const r = fit('tied');
+    const r = runFit('tied');
     const before = readFileSync(fixture('fit-tied-stdout.txt'), 'utf8').split('\n').filter((l) => !l.startsWith('wrote '));
     const now = r.stdout.split('\n');
     expect(now.slice(0, before.length - 1)).toEqual(before.slice(0, -1));
   });
 
   it('fit --transitions learned --transition-prior-strength 0 is the old learned mode (same parameters)', () => {
-    const r = fit('learned', ['--transition-prior-strength', '0']);
+    const r = runFit('learned', ['--transition-prior-strength', '0']);
     expect(r.code, r.stderr).toBe(0);
     const now = parseModel(readFileSync(tmp.path('model-learned.json'), 'utf8'), 'now');
     const before = parseModel(readFileSync(fixture('model-learned.json'), 'utf8'), 'before');

@@ -23,7 +23,7 @@ beforeAll(() => {
   const lines = ['run,step,reading'];
   for (let t = 0; t < 12; t++) lines.push(`r1,${t},${t >= 8 ? 'carpet' : t % 3 === 0 ? 'tile' : 'oak'}`);
   lines.push('r2,0,oak', 'r2,1,', 'r2,2,tile');
-  writeFileSync(p('runs.csv'), lines.join('\n') + '\n');
+  writeFileSync(p('runs.csv'), `${lines.join('\n')}\n`);
 });
 afterAll(() => tmp.remove());
 

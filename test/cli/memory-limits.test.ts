@@ -64,9 +64,9 @@ if (isMainThread && process.env.UNDERFOOT_TEST_PEAKS) process.on('exit', () => {
   // 200 runs of two rows, steps 0 and 10⁷: about 6 KB that name 2 · 10⁹ steps.
   const lines = ['run,step,reading'];
   for (let r = 0; r < 200; r++) lines.push(`r${r},0,oak`, `r${r},10000000,tile`);
-  writeFileSync(p('gaps.csv'), lines.join('\n') + '\n');
+  writeFileSync(p('gaps.csv'), `${lines.join('\n')}\n`);
   // A header of 10⁶ columns (about 8 MB) and one short row.
-  writeFileSync(p('wide.csv'), Array.from({ length: 1_000_000 }, (_, j) => `c${j}`).join(',') + '\nx\n');
+  writeFileSync(p('wide.csv'), `${Array.from({ length: 1_000_000 }, (_, j) => `c${j}`).join(',')}\nx\n`);
 });
 afterAll(() => tmp.remove());
 
@@ -123,12 +123,12 @@ describe('under an address-space limit (ulimit -v 4000000)', () => {
     // forward table alone takes 128 MB (the workspace limit).
     writeFileSync(p('short.csv'), 'run,step,reading\nr,0,oak\nr,99,tile\n');
     writeFileSync(p('long.csv'), 'run,step,reading\nr,0,oak\nr,999999,tile\n');
-    const fit = (runs: string, limitKb?: number): Run =>
+    const runFit = (runs: string, limitKb?: number): Run =>
       run(['fit', '--floor', FLOOR, '--runs', runs, '--out', p('oom.json'), '--restarts', '1', '--max-iter', '1', '--holdout', '0', '--workers', '1', '--quiet'], limitKb);
-    const small = fit(p('short.csv'), 4_000_000); // limited too, so no WebAssembly reservation counts
+    const small = runFit(p('short.csv'), 4_000_000); // limited too, so no WebAssembly reservation counts
     expect(small.code, small.stderr).toBe(0);
     expect(small.vmPeakKb).toBeGreaterThan(0);
-    const r = fit(p('long.csv'), small.vmPeakKb + 48 * MB);
+    const r = runFit(p('long.csv'), small.vmPeakKb + 48 * MB);
     expect(r.code, r.stderr).toBe(1);
     expectOneLine(r.stderr, /^underfoot: memory: the work must fit in the memory this process may use, got an allocation refused \(.+\); close other programs, use fewer --workers, or raise the limit \(ulimit -v\)$/);
   });

@@ -18,9 +18,9 @@ beforeAll(() => {
   const rows = fixture.runRows!;
   writeFileSync(
     p('runs.csv'),
-    ['run,steps,dropouts,split,loglik_per_reading,mean_path_p,low_confidence_steps,surprising_steps']
+    `${['run,steps,dropouts,split,loglik_per_reading,mean_path_p,low_confidence_steps,surprising_steps']
       .concat(rows.map((r) => [r.run, r.steps, r.dropouts, r.split, r.loglikPerReading, r.meanPathP, r.lowConfidenceSteps, r.surprisingSteps].join(',')))
-      .join('\n') + '\n',
+      .join('\n')}\n`,
   );
   writeFileSync(p('changes.csv'), 'cell,surface_before,surface_after,expected_readings,tv_distance,g_stat,p_value,q_value,verdict\nG-1-1,tile,oak,210,0.52,40,1e-7,1e-6,changed\n');
   // The runs the annotated table came from (its first three columns), for a decode-only pipeline.

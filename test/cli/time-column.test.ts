@@ -53,8 +53,8 @@ beforeAll(() => {
   const get = (name: string) => t.columns[t.header.indexOf(name)];
   rows = Array.from({ length: t.nRows }, (_, r) => ({ run: get('run').get(r)!, step: Number(get('step').get(r)), reading: get('reading').get(r) ?? '' }));
   const timeOf = (row: Row, i: number) => START + 60 * Number(row.run.replace(/\D/g, '')) + (row.step + jitter(i)) * PERIOD;
-  writeFileSync(p('iso.csv'), ['run,t,reading', ...rows.map((row, i) => `${row.run},${isoOf(timeOf(row, i))},${row.reading}`)].join('\n') + '\n');
-  writeFileSync(p('seconds.csv'), ['run,t,reading', ...rows.map((row, i) => `${row.run},${timeOf(row, i).toFixed(6)},${row.reading}`)].join('\n') + '\n');
+  writeFileSync(p('iso.csv'), `${['run,t,reading', ...rows.map((row, i) => `${row.run},${isoOf(timeOf(row, i))},${row.reading}`)].join('\n')}\n`);
+  writeFileSync(p('seconds.csv'), `${['run,t,reading', ...rows.map((row, i) => `${row.run},${timeOf(row, i).toFixed(6)},${row.reading}`)].join('\n')}\n`);
   const table = new Table({
     run: vectorFromArray(rows.map((row) => row.run), new Utf8()),
     t: vectorFromArray(rows.map((row, i) => new Date(timeOf(row, i) * 1000)), new TimestampMicrosecond()),
@@ -119,7 +119,7 @@ describe('--time-col and --period through the built command', () => {
   });
 
   it('decode refuses to overwrite an existing step column with the mapped steps', () => {
-    writeFileSync(p('both.csv'), ['run,step,t,reading', ...rows.slice(0, 50).map((row, i) => `${row.run},${row.step},${(i * PERIOD).toFixed(3)},${row.reading}`)].join('\n') + '\n');
+    writeFileSync(p('both.csv'), `${['run,step,t,reading', ...rows.slice(0, 50).map((row, i) => `${row.run},${row.step},${(i * PERIOD).toFixed(3)},${row.reading}`)].join('\n')}\n`);
     const line = fail(['decode', '--model', p('model.json'), '--runs', p('both.csv'), '--time-col', 't', '--out', p('both-out.csv'), '-q']);
     expect(line).toContain('got "step" already in the runs table (name another with --step-col)');
     ok(['decode', '--model', p('model.json'), '--runs', p('both.csv'), '--time-col', 't', '--step-col', 'tick', '--out', p('both-out.csv'), '-q']);

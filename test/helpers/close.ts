@@ -11,7 +11,7 @@ export function expectClose(actual: number, expected: number, tol: Tolerance, la
   const rel = tol.rel ?? 0;
   const ok = Math.abs(actual - expected) <= abs + rel * Math.abs(expected) || (actual === expected);
   if (!ok) {
-    expect.fail(`${label ? label + ': ' : ''}expected ${expected} ± (${abs} + ${rel}·|e|), got ${actual} (diff ${actual - expected})`);
+    expect.fail(`${label ? `${label}: ` : ''}expected ${expected} ± (${abs} + ${rel}·|e|), got ${actual} (diff ${actual - expected})`);
   }
 }
 

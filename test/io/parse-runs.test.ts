@@ -481,7 +481,7 @@ describe('key columns read without a string per row (same results as reading eac
     // 200 runs of two rows each, 0 and 10⁷ − 1: each run alone misses fewer than MAX_GAP_STEPS steps.
     const lines = ['run,step,reading'];
     for (let r = 0; r < 200; r++) lines.push(`r${r},0,oak`, `r${r},9999999,tile`);
-    expect(csvError(lines.join('\n') + '\n')).toBe(
+    expect(csvError(`${lines.join('\n')}\n`)).toBe(
       'runs.csv: runs must span at most 1400000 steps in all (1000 per row + 1000000, at most 100000000; gaps count), ' +
         'got 10000000 by run "r0" (steps 0 to 9999999 in 2 rows; is the step column a sample index?)',
     );

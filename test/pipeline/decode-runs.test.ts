@@ -75,7 +75,7 @@ describe('decodeRuns(model, tables)', () => {
     const flat = gridFloor(6, 4, ['oak', 'tile'], () => 0);
     const lines = ['run,step,reading'];
     for (let t = 0; t < 400; t++) lines.push(`r1,${t},${t % 7 === 0 ? 'tile' : 'oak'}`);
-    const table = runsFromCsv(lines.join('\n') + '\n', 'runs.csv', { surfaces: flat.surfaces });
+    const table = runsFromCsv(`${lines.join('\n')}\n`, 'runs.csv', { surfaces: flat.surfaces });
     const out = decodeRuns(buildModel(flat, { dwell: 0.9, hit: 0.8 }), [table], { lowConfidence: 0.5, surprisingBits: 6 }, () => 'fit');
     const col = (name: string) => out.annotated.columns.find((c) => c.name === name)!;
     for (const name of ['path_p', 'likely_p', 'entropy_bits', 'surprise_bits', 'spread_m']) {

@@ -19,7 +19,7 @@ async function run(argv: string[]): Promise<{ code: number; err: string }> {
   return { code, err };
 }
 
-const kebab = (key: string): string => `--${key.replace(/[A-Z]/g, (c) => '-' + c.toLowerCase())}`;
+const kebab = (key: string): string => `--${key.replace(/[A-Z]/g, (c) => `-${c.toLowerCase()}`)}`;
 
 /** The requirement of a one-line error: the text between "must" and ", got". */
 function requirement(message: string): string {

@@ -75,7 +75,7 @@ export function reportFixture(hostile = false): ReportInputs & { floor: FloorGra
     selectedBy: 'held-out',
     finalPass: loop(12, [-1.03, -1.028], -1.027, null),
   };
-  const runs = runsFromCsv(lines.join('\n') + '\n', 'runs.csv', { surfaces });
+  const runs = runsFromCsv(`${lines.join('\n')}\n`, 'runs.csv', { surfaces });
   const split = (r: string) => (fit.split.heldOut.includes(r) ? 'held-out' : 'fit');
   const decoded = decodeRuns(model, [runs], { lowConfidence: 0.5, surprisingBits: 2 }, split);
   const annotated = runsFromCsv(tableToCsv(decoded.annotated), 'annotated.csv', { surfaces });

@@ -22,7 +22,7 @@ function runsCsv(): string {
     const { obs } = sampleRun(model, 60, rng, 0.05);
     obs.forEach((o, t) => lines.push(`run-${k},${t},${o < 0 ? '' : surfaces[o]}`));
   }
-  return lines.join('\n') + '\n';
+  return `${lines.join('\n')}\n`;
 }
 
 describe('runRowsFromAnnotated(table, splitOf) and meanConfidenceByCell(model, table)', () => {
