@@ -19,7 +19,7 @@ export interface EmLoopOptions {
   decreaseSlack?: number;
   /**
    * Also require the gain still to come, projected from the last three objectives (Aitken, see
-   * `converged`), to be below `tol`: for EM that creeps along flat directions (the look-alike cells'
+   * `emConverged` in `em-converged.ts`), to be below `tol`: for EM that creeps along flat directions (the look-alike cells'
    * dwells and link splits of `per-cell` and `learned`), where a small change per iteration does not
    * mean the fit has stopped moving. @default false
    */

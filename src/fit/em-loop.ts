@@ -99,4 +99,3 @@ export async function runEm(
     if (signal?.aborted) throw new InterruptedError('the fit was interrupted', signal.reason === 'SIGTERM' ? 'SIGTERM' : 'SIGINT');
   }
 }
-
