@@ -36,7 +36,7 @@ describe('decodeRuns decodes in lane groups with the one-run numbers', () => {
         const j = Math.floor(rng.next() * (k + 1));
         [rows[k], rows[j]] = [rows[j], rows[k]];
       }
-      return 'run,step,reading\n' + rows.join('\n') + '\n';
+      return `run,step,reading\n${rows.join('\n')}\n`;
     };
     const tables = [
       runsFromCsv(makeCsv(0, 13), 'a.csv', { surfaces: floor.surfaces }),
