@@ -181,15 +181,17 @@ export function backwardMoveLanesWasm(): WasmFunction {
           f.get(hd[k]).get(cell).i32Add().tee(v).get(v).f64Load().get(ml[k >> 1]).f64x2ExtractLane((k & 1) as 0 | 1).f64Add().f64Store();
         });
       }
-      // Steps of unknown distance: plain dwell and move totals (lane order); known: per distance bin.
+      // Known distance (and eligible cell): stays and moves per lane, for the distance bins.
       for (let k = 0; k < 4; k++) {
-        f.get(ud[k]).get(kn[k]).v128AndNot().set(g[k]);
-        f.get(ml[k]).get(kn[k]).v128AndNot().set(w);
         f.get(stays[k]).get(ud[k]).get(kn[k]).get(mask).v128And().v128And().f64x2Add().set(stays[k]);
         f.get(goes[k]).get(ml[k]).get(kn[k]).get(mask).v128And().v128And().f64x2Add().set(goes[k]);
-        f.get(w).set(ud[k]); // ud now holds the masked moves (ud is not needed any more)
       }
+      // Unknown distance: the plain dwell and move totals, lanes added in order.
       f.get(anyUnknown).when(() => {
+        for (let k = 0; k < 4; k++) {
+          f.get(ud[k]).get(kn[k]).v128AndNot().set(g[k]);
+          f.get(ml[k]).get(kn[k]).v128AndNot().set(ud[k]); // ud is not needed any more: the masked moves
+        }
         f.get(pDwellCount).get(cell).i32Add().set(v);
         addLanesInOrder(g);
         f.get(pMoveCount).get(cell).i32Add().set(v);
