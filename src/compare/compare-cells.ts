@@ -255,7 +255,9 @@ export function compareCells(
     const r = regionTests[k];
     const id = `R${rank + 1}`;
     const verdict: CellVerdict = regionQ[k] === null ? 'too-few-readings' : regionQ[k]! <= options.fdr ? 'changed' : 'unchanged';
-    const candidates = r.cells.map((i) => rows[i].cell);
+    // Candidates, strongest first: by the cell's own p-value, untested cells last by expected readings.
+    const strongest = [...r.cells].sort((a, b) => (cellP[a] ?? 2) - (cellP[b] ?? 2) || rows[b].expectedReadings - rows[a].expectedReadings || a - b);
+    const candidates = strongest.map((i) => rows[i].cell);
     for (const i of r.cells) {
       Object.assign(rows[i], { region: id, candidates, qValue: regionQ[k], verdict });
       pool(newCountsT, [i], counts);

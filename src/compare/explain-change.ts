@@ -52,6 +52,7 @@ export function explainChange(x: ExplainInput): string {
     return b === a ? `${reads}: flagged because ${shifted}.` : `${reads}: flagged, and the runs place the change on this cell.`;
   }
   const region = `region ${x.region} holds ${x.regionSize} cells that read alike and that the runs cannot tell apart, so the change could be at any of them`;
+  if (x.pValue === null) return `${reads}: too few readings of its own to be tested (${Math.round(total)} expected); flagged because ${region}.`;
   if (!own) return `${reads}: its own readings alone are not conclusive; flagged because ${region}.`;
   return b === a ? `${reads}: ${shifted}; ${region}.` : `${reads}: flagged; ${region}.`;
 }

