@@ -58,12 +58,29 @@ export function positionWorkSize(groups: PositionGroups): number {
  * γ is used as given (the forward-backward posterior sums to 1 up to rounding). No allocation.
  */
 export function positionSummary(nCells: number, pass: PositionPass, t: number): void {
-  const { gamma, work, out } = pass;
-  const { nZones, zoneOf, nLevels, levelOf, dx, dy, originX, originY } = pass.groups;
+  summarisePosition(nCells, pass.groups, pass.gamma, 1, 0, pass.work, pass.out, t);
+}
+
+/**
+ * `positionSummary` over a posterior stored with a stride: γ(i) = gamma[stride · i + offset] (stride 8
+ * and offset k for lane k of the decode lanes' nCells × 8 table). Writes entry `at` of `out`. The same
+ * arithmetic in the same order whatever the stride.
+ */
+export function summarisePosition(
+  nCells: number,
+  groups: PositionGroups,
+  gamma: Float64Array,
+  stride: number,
+  offset: number,
+  work: Float64Array,
+  out: PositionSteps,
+  at: number,
+): void {
+  const { nZones, zoneOf, nLevels, levelOf, dx, dy, originX, originY } = groups;
   const size = nZones + 4 * nLevels;
   for (let k = 0; k < size; k++) work[k] = 0;
   for (let i = 0; i < nCells; i++) {
-    const g = gamma[i];
+    const g = gamma[stride * i + offset];
     work[zoneOf[i]] += g;
     const b = nZones + 4 * levelOf[i];
     const x = dx[i];
@@ -94,10 +111,10 @@ export function positionSummary(nCells: number, pass: PositionPass, t: number): 
   const mx = work[b + 1] / bestMass;
   const my = work[b + 2] / bestMass;
   const variance = work[b + 3] / bestMass - mx * mx - my * my;
-  out.likelyZone[t] = bestZone;
-  out.zoneP[t] = bestZoneP;
-  out.meanLevel[t] = bestLevel;
-  out.meanX[t] = originX[bestLevel] + mx;
-  out.meanY[t] = originY[bestLevel] + my;
-  out.spreadM[t] = Math.sqrt(variance > 0 ? variance : 0);
+  out.likelyZone[at] = bestZone;
+  out.zoneP[at] = bestZoneP;
+  out.meanLevel[at] = bestLevel;
+  out.meanX[at] = originX[bestLevel] + mx;
+  out.meanY[at] = originY[bestLevel] + my;
+  out.spreadM[at] = Math.sqrt(variance > 0 ? variance : 0);
 }

@@ -1,5 +1,5 @@
 import type { LaneGroup, SparseChain } from './sparse-chain.js';
-import type { PositionGroups } from './position-summary.js';
+import { summarisePosition, type PositionGroups } from './position-summary.js';
 
 /**
  * Per-step outputs of the lane decoders for one segment, steps × 8 (`(t - t0) * 8 + k` for lane k); the entries of a lane's
@@ -109,56 +109,11 @@ export function posteriorSummaryLanes(
       out.likelyP[ob + k] = best;
       out.pathP[ob + k] = pathP;
       out.entropyBits[ob + k] = h;
-      if (groups) lanePosition(n, groups, gamma, work, k, out, ob + k);
+      if (groups) summarisePosition(n, groups, gamma, 8, k, work, out, ob + k);
     }
     const swap = next;
     next = spare;
     spare = swap;
   }
   if (next !== w) w.set(next.subarray(0, stride));
-}
-
-/** `positionSummary` for lane k of `gamma` (nCells × 8), written to entry `at` of the summaries. */
-function lanePosition(n: number, groups: PositionGroups, gamma: Float64Array, work: Float64Array, k: number, out: LaneSummaries, at: number): void {
-  const { nZones, zoneOf, nLevels, levelOf, dx, dy, originX, originY } = groups;
-  const size = nZones + 4 * nLevels;
-  for (let s = 0; s < size; s++) work[s] = 0;
-  for (let i = 0; i < n; i++) {
-    const g = gamma[8 * i + k];
-    work[zoneOf[i]] += g;
-    const b = nZones + 4 * levelOf[i];
-    const x = dx[i];
-    const y = dy[i];
-    work[b] += g;
-    work[b + 1] += g * x;
-    work[b + 2] += g * y;
-    work[b + 3] += g * (x * x + y * y);
-  }
-  let bestZone = 0;
-  let bestZoneP = -1;
-  for (let z = 0; z < nZones; z++) {
-    if (work[z] > bestZoneP) {
-      bestZoneP = work[z];
-      bestZone = z;
-    }
-  }
-  let bestLevel = 0;
-  let bestMass = -1;
-  for (let l = 0; l < nLevels; l++) {
-    const mass = work[nZones + 4 * l];
-    if (mass > bestMass) {
-      bestMass = mass;
-      bestLevel = l;
-    }
-  }
-  const b = nZones + 4 * bestLevel;
-  const mx = work[b + 1] / bestMass;
-  const my = work[b + 2] / bestMass;
-  const variance = work[b + 3] / bestMass - mx * mx - my * my;
-  out.likelyZone[at] = bestZone;
-  out.zoneP[at] = bestZoneP;
-  out.meanLevel[at] = bestLevel;
-  out.meanX[at] = originX[bestLevel] + mx;
-  out.meanY[at] = originY[bestLevel] + my;
-  out.spreadM[at] = Math.sqrt(variance > 0 ? variance : 0);
 }
