@@ -3,7 +3,19 @@ import { InputError } from '../errors.js';
 
 /** Fails unless `bytes` are strict UTF-8 (no invalid, overlong or surrogate sequences). */
 export function checkUtf8(bytes: Uint8Array, source: string): void {
-  if (!isUtf8(bytes)) throw new InputError(`${source}: file must be UTF-8 text, got bytes that are not valid UTF-8`);
+  if (isUtf8(bytes)) return;
+  // Only on the error path: find the first line holding the bad bytes (a newline byte is never part of
+  // a multi-byte UTF-8 sequence, so each line can be checked on its own).
+  let line = 1;
+  let start = 0;
+  while (start <= bytes.length) {
+    let end = bytes.indexOf(0x0a, start);
+    if (end < 0) end = bytes.length;
+    if (!isUtf8(bytes.subarray(start, end))) break;
+    start = end + 1;
+    line++;
+  }
+  throw new InputError(`${source}: file must be UTF-8 text, got bytes that are not valid UTF-8 on line ${line}`);
 }
 
 /**

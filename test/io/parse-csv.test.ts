@@ -192,7 +192,7 @@ describe('parseCsv(bytes, source): the file read as bytes, without a text copy',
   it('parseCsv(bytes) refuses bytes that are not UTF-8: a stray byte, an overlong form, an encoded surrogate', () => {
     for (const bad of [[0x72, 0xff], [0xc0, 0xaf], [0xed, 0xa0, 0x80]]) {
       const bytes = new Uint8Array([...Buffer.from('run,step\nr', 'utf8'), ...bad, ...Buffer.from(',0\n', 'utf8')]);
-      expect(() => parseCsv(bytes, 'runs.csv')).toThrow('runs.csv: file must be UTF-8 text, got bytes that are not valid UTF-8');
+      expect(() => parseCsv(bytes, 'runs.csv')).toThrow('runs.csv: file must be UTF-8 text, got bytes that are not valid UTF-8 on line 2');
     }
   });
 
